@@ -1,0 +1,118 @@
+import express, { type Express } from 'express';
+import session from 'express-session';
+import connectPgSimple from 'connect-pg-simple';
+import passport from 'passport';
+import helmet from 'helmet';
+import { csrfSync } from 'csrf-sync';
+import fs from 'node:fs';
+import path from 'node:path';
+import type { Env } from './config/env.js';
+import type { Database } from './db/client.js';
+import { AppError } from './lib/errors.js';
+import { requestId } from './middleware/request-id.js';
+import { errorHandler, notFoundHandler } from './middleware/error-handler.js';
+import { authRouter, configurePassport } from './modules/auth/auth.router.js';
+import { usersRouter } from './modules/users/users.router.js';
+import { settingsRouter } from './modules/settings/settings.router.js';
+import { healthRouter } from './modules/health/health.router.js';
+import { buildersRouter } from './modules/builders/builders.router.js';
+import { communitiesRouter } from './modules/communities/communities.router.js';
+import { homesRouter } from './modules/homes/homes.router.js';
+import { homeTilesRouter } from './modules/home-tiles/home-tiles.router.js';
+
+export interface AppDeps {
+  env: Env;
+  database: Database;
+}
+
+const UNSAFE = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
+
+/** Builds the Express app; tests import this and listen on an ephemeral port. */
+export function createApp({ env, database }: AppDeps): Express {
+  const app = express();
+  const { db, pool } = database;
+  app.disable('x-powered-by');
+  if (env.TRUST_PROXY > 0) app.set('trust proxy', env.TRUST_PROXY);
+
+  app.use(requestId);
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          defaultSrc: ["'self'"],
+          connectSrc: ["'self'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          workerSrc: ["'self'", 'blob:'],
+          childSrc: ["'self'", 'blob:'],
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          fontSrc: ["'self'", 'data:'],
+          upgradeInsecureRequests: null,
+        },
+      },
+      // Plain-HTTP local use must keep working; HSTS belongs to the TLS-terminating proxy.
+      strictTransportSecurity: false,
+    }),
+  );
+
+  app.use('/api/health', healthRouter(pool));
+
+  const PgStore = connectPgSimple(session);
+  app.use(
+    session({
+      name: 'tw.sid',
+      store: new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+      secret: env.SESSION_SECRET,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true, // the idle timeout restarts with every request
+      cookie: {
+        httpOnly: true,
+        sameSite: 'lax',
+        secure: env.COOKIE_SECURE === 'auto' ? 'auto' : env.COOKIE_SECURE === 'true',
+        maxAge: env.SESSION_IDLE_MINUTES * 60 * 1000,
+      },
+    }),
+  );
+  app.use(passport.initialize());
+  app.use(passport.session());
+  configurePassport(db);
+
+  app.use('/api', express.json({ limit: '1mb' }));
+
+  // Cross-site request forgery: a foreign Origin is refused outright, and every state-changing
+  // request of a signed-in user must echo the session's synchroniser token (OWASP CSRF cheat sheet).
+  app.use('/api', (req, _res, next) => {
+    const origin = req.get('origin');
+    if (UNSAFE.has(req.method) && origin && new URL(origin).host !== req.get('host')) {
+      throw new AppError('CSRF_INVALID', 403, 'Cross-origin request refused');
+    }
+    next();
+  });
+  const { csrfSynchronisedProtection, generateToken } = csrfSync();
+  app.use('/api', (req, res, next) => {
+    if (!UNSAFE.has(req.method) || req.path === '/auth/sign-in' || !req.user) return next();
+    csrfSynchronisedProtection(req, res, (err?: unknown) => {
+      if (err) return next(new AppError('CSRF_INVALID', 403, 'Missing or invalid CSRF token; reload the page'));
+      next();
+    });
+  });
+
+  app.use('/api/auth', authRouter(generateToken));
+  app.use('/api/users', usersRouter(db));
+  app.use('/api/settings', settingsRouter(db));
+  app.use('/api/builders', buildersRouter(db));
+  app.use('/api/communities', communitiesRouter(db));
+  app.use('/api/homes', homesRouter(db));
+  app.use('/api', notFoundHandler);
+  app.use('/tiles/homes', homeTilesRouter(db));
+
+  const clientDist = path.resolve(env.CLIENT_DIST);
+  if (fs.existsSync(path.join(clientDist, 'index.html'))) {
+    app.use(express.static(clientDist, { index: false, maxAge: '1h' }));
+    // Client-side routes: every other GET gets the app shell.
+    app.get('/{*splat}', (_req, res) => res.sendFile(path.join(clientDist, 'index.html')));
+  }
+  app.use(notFoundHandler);
+  app.use(errorHandler);
+  return app;
+}

@@ -1,0 +1,19 @@
+import pg from 'pg';
+import { drizzle, type NodePgDatabase } from 'drizzle-orm/node-postgres';
+import * as tables from './schema/tables.js';
+
+export type Db = NodePgDatabase<typeof tables>;
+/** A database handle or an open transaction: repositories accept either so services can compose writes. */
+export type DbOrTx = Db | Parameters<Parameters<Db['transaction']>[0]>[0];
+
+export interface Database {
+  pool: pg.Pool;
+  db: Db;
+  close(): Promise<void>;
+}
+
+export function createDatabase(url: string, max = 10): Database {
+  const pool = new pg.Pool({ connectionString: url, max });
+  const db = drizzle(pool, { schema: tables, casing: 'snake_case' });
+  return { pool, db, close: () => pool.end() };
+}

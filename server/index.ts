@@ -1,0 +1,24 @@
+import { env } from './config/env.js';
+import { createDatabase } from './db/client.js';
+import { runMigrations } from './db/migrate.js';
+import { createApp } from './app.js';
+import { logger } from './lib/logger.js';
+
+const config = env();
+const database = createDatabase(config.DATABASE_URL);
+await runMigrations(database);
+const app = createApp({ env: config, database });
+const server = app.listen(config.PORT, config.HOST, () => {
+  const url = `http://localhost:${config.PORT}`;
+  process.stdout.write(`\nTractwise is running at ${url}\n`);
+  process.stdout.write(`Demo sign-ins (password demo-pass-2026): admin@tarrowby-radon.test, manager@…, estimator@…, technician@…, sales@… (README.md)\n\n`);
+  logger.info('listening', { host: config.HOST, port: config.PORT });
+});
+
+function shutdown(signal: string) {
+  logger.info('shutting down', { signal });
+  server.close(() => void database.close().then(() => process.exit(0)));
+  setTimeout(() => process.exit(0), 3000).unref();
+}
+process.on('SIGINT', () => shutdown('SIGINT'));
+process.on('SIGTERM', () => shutdown('SIGTERM'));

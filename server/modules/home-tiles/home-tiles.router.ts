@@ -1,0 +1,23 @@
+import { Router } from 'express';
+import type { Db } from '../../db/client.js';
+import { HOMES_MIN_ZOOM, MapFilter, TileParams } from '../../../shared/schemas/map.js';
+import { currentUser } from '../../middleware/auth.js';
+import { validate } from '../../middleware/validate.js';
+import { homesTile } from './home-tiles.repository.js';
+
+/** GET /tiles/homes/:z/:x/:y.pbf — the signed-in company's homes as a vector tile, filtered like the map. */
+export function homeTilesRouter(db: Db): Router {
+  const router = Router();
+  router.get('/:z/:x/:y.pbf', validate({ params: TileParams, query: MapFilter }), async (req, res) => {
+    const user = currentUser(req);
+    const { z, x, y } = req.params as unknown as { z: number; x: number; y: number };
+    const tile = z < HOMES_MIN_ZOOM ? Buffer.alloc(0) : await homesTile(db, user.companyId, z, x, y, req.query as unknown as MapFilter);
+    res.set({
+      'Content-Type': 'application/x-protobuf',
+      // Private: the tile carries one company's customer data; short so a new visit shows soon.
+      'Cache-Control': 'private, max-age=30',
+    });
+    res.send(tile);
+  });
+  return router;
+}

@@ -1,0 +1,140 @@
+import { and, asc, desc, eq, ilike, sql, type SQL } from 'drizzle-orm';
+import type { DbOrTx } from '../../db/client.js';
+import { builders, communities, homes, radonTests, visits } from '../../db/schema/tables.js';
+
+export const homeColumns = {
+  id: homes.id,
+  number: homes.number,
+  street: homes.street,
+  unit: homes.unit,
+  city: homes.city,
+  state: homes.state,
+  zip: homes.zip,
+  lon: sql<number>`ST_X(${homes.location})`,
+  lat: sql<number>`ST_Y(${homes.location})`,
+  communityId: homes.communityId,
+  communityName: communities.name,
+  builderId: homes.builderId,
+  builderName: builders.name,
+  yearBuilt: homes.yearBuilt,
+  foundation: homes.foundation,
+  passiveSystem: homes.passiveSystem,
+  pipeSizeIn: homes.pipeSizeIn,
+  suctionPointNote: homes.suctionPointNote,
+  outcome: homes.outcome,
+  doNotContact: homes.doNotContact,
+  ownerName: homes.ownerName,
+  mailingAddress: homes.mailingAddress,
+};
+
+export type HomeRow = Awaited<ReturnType<typeof findHome>> & {};
+
+function baseQuery(db: DbOrTx) {
+  return db
+    .select(homeColumns)
+    .from(homes)
+    .leftJoin(communities, eq(communities.id, homes.communityId))
+    .leftJoin(builders, eq(builders.id, homes.builderId));
+}
+
+export async function findHome(db: DbOrTx, companyId: string, id: string) {
+  const [row] = await baseQuery(db).where(and(eq(homes.companyId, companyId), eq(homes.id, id)));
+  return row;
+}
+
+export async function listHomes(
+  db: DbOrTx,
+  companyId: string,
+  filter: { communityId?: string; builderId?: string; outcome?: string; q?: string; limit: number; offset: number },
+) {
+  const conditions: SQL[] = [eq(homes.companyId, companyId)];
+  if (filter.communityId) conditions.push(eq(homes.communityId, filter.communityId));
+  if (filter.builderId) conditions.push(eq(homes.builderId, filter.builderId));
+  if (filter.outcome) conditions.push(eq(homes.outcome, filter.outcome));
+  if (filter.q) conditions.push(ilike(sql`${homes.number} || ' ' || ${homes.street}`, `%${filter.q.replace(/[%_\\]/g, '\\$&')}%`));
+  const where = and(...conditions);
+  const [rows, [{ total }]] = await Promise.all([
+    baseQuery(db).where(where).orderBy(asc(homes.street), sql`length(${homes.number})`, asc(homes.number)).limit(filter.limit).offset(filter.offset),
+    db.select({ total: sql<number>`count(*)::int` }).from(homes).where(where),
+  ]);
+  return { rows, total };
+}
+
+export const pointSql = (lon: number, lat: number) => sql`ST_SetSRID(ST_MakePoint(${lon}, ${lat}), 4326)`;
+
+/** The community whose boundary contains the point, if any (GiST-indexed ST_Contains). */
+export async function communityAt(db: DbOrTx, companyId: string, lon: number, lat: number) {
+  const result = await db.execute<{ id: string }>(
+    sql`select id from communities where company_id = ${companyId} and ST_Contains(boundary, ${pointSql(lon, lat)}) limit 1`,
+  );
+  return result.rows[0]?.id ?? null;
+}
+
+export type HomeWrite = Partial<Omit<typeof homes.$inferInsert, 'location' | 'companyId' | 'id'>> & { lon?: number; lat?: number };
+
+function columnsOf(values: HomeWrite) {
+  const { lon, lat, ...rest } = values;
+  return { ...rest, ...(lon !== undefined && lat !== undefined ? { location: pointSql(lon, lat) as unknown as string } : {}) };
+}
+
+export async function insertHome(db: DbOrTx, companyId: string, values: HomeWrite & { addressKey: string }) {
+  const [row] = await db
+    .insert(homes)
+    .values({ ...(columnsOf(values) as typeof homes.$inferInsert), companyId })
+    .returning({ id: homes.id });
+  return row.id;
+}
+
+export async function updateHome(db: DbOrTx, companyId: string, id: string, values: HomeWrite) {
+  const [row] = await db
+    .update(homes)
+    .set({ ...columnsOf(values), updatedAt: new Date() })
+    .where(and(eq(homes.companyId, companyId), eq(homes.id, id)))
+    .returning({ id: homes.id });
+  return row?.id;
+}
+
+export async function deleteHome(db: DbOrTx, companyId: string, id: string) {
+  const rows = await db.delete(homes).where(and(eq(homes.companyId, companyId), eq(homes.id, id))).returning({ id: homes.id });
+  return rows.length > 0;
+}
+
+export async function referenceBelongs(db: DbOrTx, companyId: string, table: 'communities' | 'builders', id: string) {
+  const target = table === 'communities' ? communities : builders;
+  const [row] = await db.select({ id: target.id }).from(target).where(and(eq(target.companyId, companyId), eq(target.id, id)));
+  return Boolean(row);
+}
+
+export function listVisitsForHome(db: DbOrTx, companyId: string, homeId: string) {
+  return db
+    .select({
+      id: visits.id,
+      visitedOn: visits.visitedOn,
+      status: visits.status,
+      vacuumPa: visits.vacuumPa,
+      subSlabMaterial: visits.subSlabMaterial,
+      reworkNeeded: visits.reworkNeeded,
+      reworkDone: visits.reworkDone,
+      reworkReasons: visits.reworkReasons,
+      notes: visits.notes,
+    })
+    .from(visits)
+    .where(and(eq(visits.companyId, companyId), eq(visits.homeId, homeId)))
+    .orderBy(desc(visits.visitedOn));
+}
+
+export function listTestsForHome(db: DbOrTx, companyId: string, homeId: string) {
+  return db
+    .select({
+      id: radonTests.id,
+      kind: radonTests.kind,
+      device: radonTests.device,
+      startedAt: radonTests.startedAt,
+      endedAt: radonTests.endedAt,
+      resultBqM3: radonTests.resultBqM3,
+      sideBySideGroup: radonTests.sideBySideGroup,
+    })
+    .from(radonTests)
+    .where(and(eq(radonTests.companyId, companyId), eq(radonTests.homeId, homeId)))
+    .orderBy(desc(radonTests.endedAt));
+}

@@ -1,0 +1,100 @@
+#!/usr/bin/env bash
+# Shared bootstrap for `npm start`, `npm test` and `npm run dev`: everything a fresh clone needs,
+# using only Debian's packages and the npm registry. Each step is skipped when already done.
+set -euo pipefail
+
+ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"
+cd "$ROOT"
+
+PGBIN="${PGBIN:-/usr/lib/postgresql/15/bin}"
+PG_DATA="${PG_DATA:-$ROOT/.data/pg}"
+PG_PORT="${PG_PORT:-54329}"
+PG_SHARE="/usr/share/postgresql/15"
+
+log() { printf '\033[1;36m[tractwise]\033[0m %s\n' "$*"; }
+
+apt_updated=0
+apt_install() {
+  if [ "$(id -u)" != 0 ]; then
+    echo "Missing Debian packages ($*): run as root or install them: apt-get install -y $*" >&2
+    exit 1
+  fi
+  if [ "$apt_updated" = 0 ]; then
+    log "apt-get update"
+    apt-get update -qq
+    apt_updated=1
+  fi
+  log "apt-get install $*"
+  DEBIAN_FRONTEND=noninteractive apt-get install -y -qq "$@" >/dev/null
+}
+
+ensure_postgres() {
+  local need=()
+  [ -x "$PGBIN/pg_ctl" ] || need+=(postgresql)
+  [ -f "$PG_SHARE/extension/postgis.control" ] || need+=(postgresql-15-postgis-3)
+  if [ ${#need[@]} -gt 0 ]; then apt_install "${need[@]}"; fi
+}
+
+ensure_chromium() {
+  [ -x /usr/bin/chromium ] || apt_install chromium
+}
+
+ensure_node_modules() {
+  # Reinstall when node_modules is missing or older than the lock file.
+  if [ ! -f node_modules/.package-lock.json ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
+    log "npm ci"
+    npm ci --no-audit --no-fund --loglevel=error
+  fi
+}
+
+# Runs a PostgreSQL binary as the postgres user when we are root (initdb refuses root).
+as_pg() {
+  if [ "$(id -u)" = 0 ]; then runuser -u postgres -- "$@"; else "$@"; fi
+}
+
+pg_running() { as_pg "$PGBIN/pg_ctl" -D "$PG_DATA" status >/dev/null 2>&1; }
+
+start_postgres() {
+  if [ ! -f "$PG_DATA/PG_VERSION" ]; then
+    log "initialising a PostgreSQL cluster in $PG_DATA"
+    mkdir -p "$PG_DATA"
+    if [ "$(id -u)" = 0 ]; then
+      chown postgres:postgres "$PG_DATA"
+      # postgres must be able to walk down to the data folder.
+      local d="$PG_DATA"
+      while d="$(dirname "$d")" && [ "$d" != / ]; do chmod o+x "$d" 2>/dev/null || true; done
+    fi
+    chmod 700 "$PG_DATA"
+    as_pg "$PGBIN/initdb" -D "$PG_DATA" -U postgres --auth=trust -E UTF8 --locale=C.UTF-8 >/dev/null
+  fi
+  if ! pg_running; then
+    log "starting PostgreSQL on 127.0.0.1:$PG_PORT"
+    as_pg "$PGBIN/pg_ctl" -D "$PG_DATA" -l "$PG_DATA/server.log" -w -t 30 \
+      -o "-c listen_addresses=127.0.0.1 -p $PG_PORT -k $PG_DATA" start >/dev/null
+  fi
+}
+
+stop_postgres() {
+  if [ -f "$PG_DATA/PG_VERSION" ] && pg_running; then
+    as_pg "$PGBIN/pg_ctl" -D "$PG_DATA" -m fast -w stop >/dev/null
+    log "PostgreSQL stopped"
+  else
+    log "PostgreSQL is not running"
+  fi
+}
+
+ensure_database() {
+  local name="$1"
+  if ! psql -h 127.0.0.1 -p "$PG_PORT" -U postgres -tAc "select 1 from pg_database where datname = '$name'" | grep -q 1; then
+    log "creating database $name"
+    psql -h 127.0.0.1 -p "$PG_PORT" -U postgres -qc "create database \"$name\"" >/dev/null
+  fi
+}
+
+database_url() { echo "postgres://postgres@127.0.0.1:$PG_PORT/$1"; }
+
+bootstrap() {
+  ensure_postgres
+  ensure_node_modules
+  start_postgres
+}

@@ -1,0 +1,46 @@
+import { createBrowserRouter, redirect, type LoaderFunctionArgs } from 'react-router-dom';
+import type { QueryClient } from '@tanstack/react-query';
+import type { Role } from '@shared/schemas/enums';
+import { sessionQueryOptions } from '@/features/auth/api/get-session';
+import { AppLayout, NAV } from '@/components/layouts/app-layout';
+import { RouteError } from './routes/route-error';
+
+/** Signed-out users go to sign-in; a role that may not use a page is sent to the map. */
+function guard(queryClient: QueryClient, path?: string) {
+  return async ({ request }: LoaderFunctionArgs) => {
+    const session = await queryClient.ensureQueryData(sessionQueryOptions());
+    if (!session.user) {
+      const url = new URL(request.url);
+      throw redirect(`/sign-in?next=${encodeURIComponent(url.pathname + url.search)}`);
+    }
+    const roles: readonly Role[] | undefined = NAV.find((n) => n.to === path)?.roles;
+    if (roles && !roles.includes(session.user.role)) throw redirect('/');
+    return null;
+  };
+}
+
+export function makeRouter(queryClient: QueryClient) {
+  return createBrowserRouter([
+    {
+      path: '/sign-in',
+      errorElement: <RouteError />,
+      loader: async () => {
+        const session = await queryClient.ensureQueryData(sessionQueryOptions());
+        return session.user ? redirect('/') : null;
+      },
+      lazy: () => import('./routes/sign-in').then((m) => ({ Component: m.SignInRoute })),
+    },
+    {
+      element: <AppLayout />,
+      errorElement: <RouteError />,
+      loader: guard(queryClient),
+      children: [
+        { index: true, lazy: () => import('./routes/map').then((m) => ({ Component: m.MapRoute })) },
+        { path: 'homes', loader: guard(queryClient, '/homes'), lazy: () => import('./routes/homes').then((m) => ({ Component: m.HomesRoute })) },
+        { path: 'communities', loader: guard(queryClient, '/communities'), lazy: () => import('./routes/communities').then((m) => ({ Component: m.CommunitiesRoute })) },
+        { path: 'builders', loader: guard(queryClient, '/builders'), lazy: () => import('./routes/builders').then((m) => ({ Component: m.BuildersRoute })) },
+        { path: 'settings', loader: guard(queryClient, '/settings'), lazy: () => import('./routes/settings').then((m) => ({ Component: m.SettingsRoute })) },
+      ],
+    },
+  ]);
+}

@@ -1,0 +1,119 @@
+import { useEffect, useMemo, useState } from 'react';
+import { MapProvider, useMap } from 'react-map-gl/maplibre';
+import { useNavigate, useLocation } from 'react-router-dom';
+import { bbox } from '@turf/turf';
+import type { FeatureCollection } from 'geojson';
+import { MapView, MAP_ID } from '@/features/map/components/map-view';
+import { MapLegend } from '@/features/map/components/map-legend';
+import { MapFiltersPanel } from '@/features/map/components/map-filters';
+import { restoredSearch, useMapState } from '@/features/map/use-map-state';
+import { HomePanel } from '@/features/homes/components/home-panel';
+import { AddressSearch } from '@/features/homes/components/address-search';
+import { useCommunities } from '@/features/communities/api/get-communities';
+import { useBuilders } from '@/features/builders/api/get-builders';
+import { useSettings } from '@/features/settings/api/settings';
+import { PanelBoundary } from '@/components/ui/panel-boundary';
+import { EmptyState } from '@/components/ui/empty-state';
+import { bqM3ToPciL } from '@shared/domain/units';
+
+export function MapRoute() {
+  const location = useLocation();
+  const navigate = useNavigate();
+  // Opening the map from the navigation brings back the last filters (map state survives reload).
+  const restore = restoredSearch(location.search);
+  useEffect(() => {
+    if (restore) navigate({ search: restore }, { replace: true });
+  }, [restore, navigate]);
+  return (
+    <MapProvider>
+      <MapScreen />
+    </MapProvider>
+  );
+}
+
+function MapScreen() {
+  const { filters, styleMode, selectedHomeId, update } = useMapState();
+  const communities = useCommunities();
+  const builders = useBuilders();
+  const settings = useSettings();
+  const maps = useMap();
+  const [filtersOpen, setFiltersOpen] = useState(false);
+
+  const communityFc = useMemo<FeatureCollection>(
+    () => ({
+      type: 'FeatureCollection',
+      features: (communities.data?.communities ?? [])
+        .filter((c) => c.boundary)
+        .map((c) => ({ type: 'Feature', id: c.id, properties: { id: c.id, name: c.name }, geometry: c.boundary! })),
+    }),
+    [communities.data],
+  );
+  const center = useMemo<[number, number] | null>(() => {
+    if (!communities.data) return null;
+    if (communityFc.features.length === 0) return [0, 0];
+    const [w, s, e, n] = bbox(communityFc);
+    return [(w + e) / 2, (s + n) / 2];
+  }, [communities.data, communityFc]);
+
+  const actionLevelBqM3 = settings.data?.settings.actionLevelBqM3 ?? 148;
+  const radonUnit = settings.data?.settings.radonUnit ?? 'pCi/L';
+
+  const filterPanel = (
+    <MapFiltersPanel
+      filters={filters}
+      styleMode={styleMode}
+      builders={builders.data?.builders ?? []}
+      communities={communities.data?.communities ?? []}
+      onChange={update}
+    />
+  );
+
+  return (
+    <div className="relative h-full w-full overflow-hidden">
+      {center && (
+        <PanelBoundary>
+          <MapView
+            filters={filters}
+            styleMode={styleMode}
+            actionLevelPciL={bqM3ToPciL(actionLevelBqM3)}
+            selectedHomeId={selectedHomeId}
+            communities={communityFc}
+            initialCenter={center}
+            onSelectHome={(id) => update({ home: id })}
+          />
+        </PanelBoundary>
+      )}
+      {communities.data && communities.data.communities.length === 0 && (
+        <div className="absolute inset-x-4 top-20 z-10 mx-auto max-w-md">
+          <EmptyState title="No communities on the map yet">Import addresses to start a community.</EmptyState>
+        </div>
+      )}
+
+      {/* Search and filters: a column on desktop, a bar plus a sheet on a phone. */}
+      <div className="absolute left-2 right-14 top-2 z-10 flex flex-col gap-2 sm:right-auto sm:w-80">
+        <AddressSearch
+          onPick={(home) => {
+            update({ home: home.id });
+            maps[MAP_ID]?.flyTo({ center: [home.lon, home.lat], zoom: 17 });
+          }}
+        />
+        <button className="min-h-11 rounded-md border border-rule bg-panel px-3 text-sm shadow-sm sm:hidden" onClick={() => setFiltersOpen((o) => !o)} aria-expanded={filtersOpen}>
+          {filtersOpen ? 'Hide filters' : 'Filters and style'}
+        </button>
+        <div className={`${filtersOpen ? 'block' : 'hidden'} max-h-[60vh] overflow-auto rounded-md border border-rule bg-panel p-3 shadow-sm sm:block`}>{filterPanel}</div>
+      </div>
+
+      <div className={`absolute bottom-8 right-2 z-10 max-w-[16rem] ${selectedHomeId ? 'hidden sm:block sm:right-[25rem]' : ''}`}>
+        <MapLegend styleMode={styleMode} actionLevelPciL={bqM3ToPciL(actionLevelBqM3)} />
+      </div>
+
+      {selectedHomeId && (
+        <div className="absolute inset-x-0 bottom-0 z-20 max-h-[60%] overflow-auto rounded-t-xl border-t border-rule bg-panel p-4 shadow-lg sm:inset-x-auto sm:bottom-0 sm:right-0 sm:top-0 sm:max-h-none sm:w-96 sm:rounded-none sm:border-l sm:border-t-0">
+          <PanelBoundary>
+            <HomePanel homeId={selectedHomeId} radonUnit={radonUnit} actionLevelBqM3={actionLevelBqM3} onClose={() => update({ home: undefined })} />
+          </PanelBoundary>
+        </div>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,16 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { api, setCsrfToken } from '@/lib/api-client';
+import type { SessionResponse } from '@shared/schemas/auth';
+import { sessionQueryOptions } from './get-session';
+
+export function useSignIn() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: { email: string; password: string }) => api<SessionResponse>('/api/auth/sign-in', { method: 'POST', body }),
+    onSuccess: (session) => {
+      setCsrfToken(session.csrfToken);
+      queryClient.clear();
+      queryClient.setQueryData(sessionQueryOptions().queryKey, session);
+    },
+  });
+}

@@ -1,0 +1,15 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { api, setCsrfToken } from '@/lib/api-client';
+import { sessionQueryOptions } from './get-session';
+
+export function useSignOut() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: () => api<void>('/api/auth/sign-out', { method: 'POST' }),
+    onSettled: () => {
+      setCsrfToken(null);
+      queryClient.clear();
+      queryClient.setQueryData(sessionQueryOptions().queryKey, { user: null, csrfToken: null });
+    },
+  });
+}

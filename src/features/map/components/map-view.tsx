@@ -1,0 +1,100 @@
+import { useCallback, useMemo, useRef } from 'react';
+import Map, { Layer, NavigationControl, AttributionControl, Source, type MapLayerMouseEvent, type MapRef } from 'react-map-gl/maplibre';
+import { addProtocol, setWorkerUrl } from 'maplibre-gl';
+import { Protocol } from 'pmtiles';
+import workerUrl from 'maplibre-gl/dist/maplibre-gl-worker.mjs?url';
+import 'maplibre-gl/dist/maplibre-gl.css';
+import type { FeatureCollection } from 'geojson';
+import {
+  communityFillLayer,
+  communityLabelLayer,
+  communityLineLayer,
+  contextLayer,
+  HOMES_SOURCE,
+  outcomeLayer,
+  postLayer,
+  reworkLayer,
+  selectedLayer,
+  vacuumLayer,
+  type MapStyleMode,
+} from '../layers/home-layers';
+import { renderOutcomeIcons, ICON_PIXEL_RATIO } from '../utils/outcome-icons';
+import { loadCamera, saveCamera, tileQuery, type MapFilters } from '../use-map-state';
+
+// maplibre-gl 6 needs its worker URL set explicitly in a production build (STACK.md).
+setWorkerUrl(workerUrl);
+// A deployment's own PMTiles basemap (BASEMAP_PMTILES) is read through HTTP range requests to this app.
+addProtocol('pmtiles', new Protocol().tile);
+
+export const MAP_ID = 'survey';
+const CLICKABLE = ['homes-outcome', 'homes-vacuum', 'homes-post', 'homes-rework', 'homes-context'];
+
+export interface MapViewProps {
+  filters: MapFilters;
+  styleMode: MapStyleMode;
+  actionLevelPciL: number;
+  selectedHomeId: string | null;
+  communities: FeatureCollection;
+  initialCenter: [number, number];
+  onSelectHome(id: string | null): void;
+}
+
+export function MapView({ filters, styleMode, actionLevelPciL, selectedHomeId, communities, initialCenter, onSelectHome }: MapViewProps) {
+  const mapRef = useRef<MapRef>(null);
+  const initialView = useMemo(() => loadCamera() ?? { longitude: initialCenter[0], latitude: initialCenter[1], zoom: 14 }, [initialCenter]);
+  const tiles = useMemo(() => [`${window.location.origin}/tiles/homes/{z}/{x}/{y}.pbf${tileQuery(filters)}`], [filters]);
+
+  const onLoad = useCallback(() => {
+    const map = mapRef.current?.getMap();
+    if (!map) return;
+    for (const { name, image } of renderOutcomeIcons()) {
+      if (!map.hasImage(name)) map.addImage(name, image, { pixelRatio: ICON_PIXEL_RATIO });
+    }
+    // A handle for browser tests and support sessions to inspect what the map drew.
+    (window as unknown as { __tractwiseMap?: unknown }).__tractwiseMap = map;
+  }, []);
+
+  const onClick = useCallback(
+    (e: MapLayerMouseEvent) => {
+      const feature = e.features?.[0];
+      onSelectHome(feature ? String(feature.properties?.id) : null);
+    },
+    [onSelectHome],
+  );
+
+  return (
+    <Map
+      id={MAP_ID}
+      ref={mapRef}
+      reuseMaps
+      mapStyle="/map/style.json"
+      initialViewState={initialView}
+      minZoom={10}
+      maxZoom={19}
+      style={{ position: 'absolute', inset: 0 }}
+      interactiveLayerIds={CLICKABLE}
+      onClick={onClick}
+      onLoad={onLoad}
+      onMoveEnd={(e) => saveCamera({ longitude: e.viewState.longitude, latitude: e.viewState.latitude, zoom: e.viewState.zoom })}
+      attributionControl={false}
+      cursor="pointer"
+    >
+      <AttributionControl compact={false} position="bottom-left" />
+      <NavigationControl position="top-right" showCompass={false} />
+      <Source id="communities" type="geojson" data={communities}>
+        <Layer {...communityFillLayer} />
+        <Layer {...communityLineLayer} />
+        <Layer {...communityLabelLayer} />
+      </Source>
+      {/* key: a new filter set means a new tile set; react-map-gl swaps the source's tiles. */}
+      <Source id={HOMES_SOURCE} type="vector" tiles={tiles} minzoom={11} maxzoom={16}>
+        {styleMode !== 'outcome' && <Layer {...contextLayer} />}
+        {styleMode === 'outcome' && <Layer {...outcomeLayer} />}
+        {styleMode === 'vacuum' && <Layer {...vacuumLayer} />}
+        {styleMode === 'post' && <Layer {...postLayer(actionLevelPciL)} />}
+        {styleMode === 'rework' && <Layer {...reworkLayer} />}
+        <Layer {...selectedLayer(selectedHomeId)} />
+      </Source>
+    </Map>
+  );
+}

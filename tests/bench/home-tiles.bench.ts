@@ -1,0 +1,94 @@
+// House-tile latency with 100,000 synthetic homes, beside a static file of the same size served
+// by the same process in the same run (issue: the map). Target: p95 < 30 ms and within 3× of static.
+import fs from 'node:fs';
+import path from 'node:path';
+import { freePort, startServerProcess, stopServerProcess } from '../setup/server-process.js';
+import { tileFor } from '../setup/tiles.js';
+import { freshBenchDatabase, fmt, printTable, summarise } from './support.js';
+
+const HOMES = 100_000;
+const REQUESTS_PER_ZOOM = 200;
+
+const database = await freshBenchDatabase();
+// The demo company, its town, and 100k more homes scattered over a 12 × 12 km square around it.
+const { rows: [company] } = await database.pool.query(`select c.id, ST_X(ST_Centroid(ST_Collect(h.location))) as lon, ST_Y(ST_Centroid(ST_Collect(h.location))) as lat
+  from companies c join homes h on h.company_id = c.id group by c.id order by count(*) desc limit 1`);
+const started = Date.now();
+await database.pool.query(
+  `insert into homes (company_id, number, street, city, state, zip, address_key, location, year_built, outcome, last_vacuum_pa, rework_flag)
+   select $1, g::text, 'Bench Row', 'Benchton', 'ZZ', '00000', 'BENCH|' || g, ST_SetSRID(ST_MakePoint($2 + (random() - 0.5) * 0.14, $3 + (random() - 0.5) * 0.11), 4326),
+          2003 + (g % 19), (array['not_visited','below_action_level','needs_rework','reworked_below','declined','awaiting_test'])[1 + (g % 6)],
+          case when g % 3 = 0 then 50 + (g % 400) end, g % 7 = 0
+   from generate_series(1, $4) g`,
+  [company.id, company.lon, company.lat, HOMES],
+);
+await database.pool.query('analyze homes');
+const { rows: [{ n }] } = await database.pool.query('select count(*)::int as n from homes');
+process.stdout.write(`inserted ${HOMES} synthetic homes in ${Date.now() - started} ms (${n} homes in all)\n`);
+const { rows: [admin] } = await database.pool.query(`select email from users where company_id = $1 and role = 'admin'`, [company.id]);
+await database.close();
+
+const port = await freePort();
+const server = await startServerProcess(port, { DATABASE_URL: process.env.BENCH_DATABASE_URL!, LOG_LEVEL: 'error', NODE_ENV: 'production' });
+const base = `http://127.0.0.1:${port}`;
+try {
+  const signIn = await fetch(base + '/api/auth/sign-in', {
+    method: 'POST',
+    headers: { 'Content-Type': 'application/json' },
+    body: JSON.stringify({ email: admin.email, password: 'demo-pass-2026' }),
+  });
+  const cookie = signIn.headers.get('set-cookie')!.split(';')[0];
+
+  async function time(url: string, headers: Record<string, string> = {}) {
+    const t0 = performance.now();
+    const res = await fetch(url, { headers });
+    const body = await res.arrayBuffer();
+    const ms = performance.now() - t0;
+    if (!res.ok) throw new Error(`${url} → ${res.status}`);
+    return { ms, bytes: body.byteLength };
+  }
+
+  const rows: Record<string, string | number>[] = [];
+  for (const z of [12, 14, 16]) {
+    // Tiles over the populated square, visited in a fixed pseudo-random order.
+    const centre = tileFor(company.lon, company.lat, z);
+    const span = Math.max(1, Math.round((0.14 * 2 ** z) / 360 / 2));
+    const tiles: { x: number; y: number }[] = [];
+    for (let dx = -span; dx <= span; dx++) for (let dy = -span; dy <= span; dy++) tiles.push({ x: centre.x + dx, y: centre.y + dy });
+    const samples: number[] = [];
+    const sizes: number[] = [];
+    for (let i = 0; i < 20; i++) await time(`${base}/tiles/homes/${z}/${tiles[i % tiles.length].x}/${tiles[i % tiles.length].y}.pbf`, { Cookie: cookie });
+    for (let i = 0; i < REQUESTS_PER_ZOOM; i++) {
+      const t = tiles[(i * 7919) % tiles.length];
+      const r = await time(`${base}/tiles/homes/${z}/${t.x}/${t.y}.pbf?v=${i}`, { Cookie: cookie });
+      samples.push(r.ms);
+      sizes.push(r.bytes);
+    }
+    const meanBytes = Math.round(sizes.reduce((a, b) => a + b, 0) / sizes.length);
+    // A static file of the mean tile size, served by the same process (express.static) in the same run.
+    const staticName = `bench-static-${z}.bin`;
+    const staticPath = path.resolve('dist/client', staticName);
+    fs.writeFileSync(staticPath, Buffer.alloc(meanBytes, 7));
+    const staticSamples: number[] = [];
+    for (let i = 0; i < 20; i++) await time(`${base}/${staticName}`);
+    for (let i = 0; i < REQUESTS_PER_ZOOM; i++) staticSamples.push((await time(`${base}/${staticName}?v=${i}`)).ms);
+    fs.rmSync(staticPath);
+    const tile = summarise(samples);
+    const stat = summarise(staticSamples);
+    rows.push({
+      zoom: z,
+      tiles: tiles.length,
+      'mean tile bytes': meanBytes,
+      'tile p50 ms': fmt(tile.p50),
+      'tile p95 ms': fmt(tile.p95),
+      'static p50 ms': fmt(stat.p50),
+      'static p95 ms': fmt(stat.p95),
+      'p95 ratio': fmt(tile.p95 / stat.p95),
+      'target p95 < 30 ms': tile.p95 < 30 ? 'met' : 'MISSED',
+      'target ≤ 3× static': tile.p95 <= 3 * stat.p95 ? 'met' : 'MISSED',
+    });
+  }
+  printTable(`House tiles, ${HOMES.toLocaleString('en')} synthetic homes + demo, ${REQUESTS_PER_ZOOM} sequential requests per zoom`, rows);
+} finally {
+  await stopServerProcess(server);
+}

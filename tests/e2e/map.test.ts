@@ -1,0 +1,114 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { ChildProcess } from 'node:child_process';
+import path from 'node:path';
+import type { Page } from 'playwright-core';
+import { freePort, startServerProcess, stopServerProcess } from '../setup/server-process.js';
+import { ARTIFACTS, launchBrowser } from '../setup/browser.js';
+import { demoUser } from '../setup/demo.js';
+import { ApiClient } from '../setup/test-app.js';
+
+let server: ChildProcess;
+let baseUrl: string;
+let browserHandle: Awaited<ReturnType<typeof launchBrowser>>;
+
+beforeAll(async () => {
+  const port = await freePort();
+  server = await startServerProcess(port);
+  baseUrl = `http://127.0.0.1:${port}`;
+  browserHandle = await launchBrowser();
+});
+afterAll(async () => {
+  await browserHandle?.close();
+  if (server) await stopServerProcess(server);
+});
+
+async function signIn(page: Page, role: 'technician' | 'manager') {
+  await page.goto(baseUrl + '/sign-in');
+  await page.getByLabel('E-mail').fill(demoUser(role));
+  await page.getByLabel('Password').fill('demo-pass-2026');
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'));
+}
+
+/** Waits until MapLibre has loaded its style and drawn every tile in view. */
+async function mapIdle(page: Page) {
+  await page.waitForFunction(() => {
+    const map = (window as unknown as { __tractwiseMap?: { loaded(): boolean; areTilesLoaded(): boolean; isMoving(): boolean } }).__tractwiseMap;
+    return Boolean(map && map.loaded() && map.areTilesLoaded() && !map.isMoving());
+  }, undefined, { timeout: 30_000 });
+  await page.waitForTimeout(300);
+}
+
+describe('the map', () => {
+  it('draws the demo town with street labels from this origin only, and opens a tapped home', async () => {
+    const api = new ApiClient(baseUrl);
+    await api.signIn(demoUser('technician'));
+    const target = (await api.get('/api/homes?limit=1&q=1')).body.homes[0];
+
+    const context = await browserHandle.browser.newContext({ viewport: { width: 1280, height: 800 } });
+    const page = await context.newPage();
+    const requests: string[] = [];
+    page.on('request', (r) => requests.push(r.url()));
+    await signIn(page, 'technician');
+    await mapIdle(page);
+
+    // Street names are drawn: rendered label features from the basemap's symbol layers.
+    const labels = await page.evaluate(() => {
+      const map = (window as unknown as { __tractwiseMap: { getStyle(): { layers: { id: string; type: string; source?: string }[] }; queryRenderedFeatures(o: { layers: string[] }): { properties: Record<string, unknown> }[] } }).__tractwiseMap;
+      const ids = map.getStyle().layers.filter((l) => l.type === 'symbol' && l.source === 'base').map((l) => l.id);
+      return map.queryRenderedFeatures({ layers: ids }).map((f) => String(f.properties.name ?? ''));
+    });
+    expect(labels.filter(Boolean).length).toBeGreaterThan(0);
+    await page.screenshot({ path: path.join(ARTIFACTS, 'map-demo-town.png') });
+
+    // Find the home by address (keyboard only), which flies the map to it.
+    const search = page.getByRole('combobox', { name: 'Find an address' });
+    await search.fill(target.address);
+    await page.getByRole('option').first().waitFor();
+    await search.press('ArrowDown');
+    await search.press('ArrowUp');
+    await search.press('Enter');
+    await expect(page.getByTestId('home-address').textContent()).resolves.toBe(target.address);
+    await page.getByRole('button', { name: 'Close home panel' }).click();
+    await mapIdle(page);
+
+    // Tap the home: after the fly-to it sits at the centre of the map.
+    await page.mouse.click(640, 400 + 0);
+    await page.getByTestId('home-address').waitFor();
+    expect(await page.getByTestId('home-address').textContent()).toBe(target.address);
+    await page.screenshot({ path: path.join(ARTIFACTS, 'map-home-panel.png') });
+
+    // Every request the page made went to the app's own origin.
+    const foreign = requests.filter((u) => !u.startsWith(baseUrl) && !u.startsWith('data:') && !u.startsWith('blob:'));
+    expect(foreign).toEqual([]);
+    expect(requests.some((u) => u.includes('/glyphs/'))).toBe(true);
+    expect(requests.some((u) => u.includes('/tiles/homes/'))).toBe(true);
+    await context.close();
+  });
+
+  it('keeps filters in the URL and restores camera and filters after a reload', async () => {
+    const context = await browserHandle.browser.newContext({ viewport: { width: 390, height: 844 } });
+    const page = await context.newPage();
+    await signIn(page, 'manager');
+    await mapIdle(page);
+    await page.getByRole('button', { name: 'Filters and style' }).click();
+    await page.getByLabel('Show homes by').selectOption('vacuum');
+    await page.getByRole('checkbox', { name: 'Above the action level or needs rework' }).check();
+    await page.waitForURL(/style=vacuum/);
+    expect(page.url()).toContain('outcome=needs_rework');
+    await expect(page.getByRole('region', { name: 'Legend' }).textContent()).resolves.toContain('in. WC');
+
+    await page.evaluate(() => (window as unknown as { __tractwiseMap: { jumpTo(o: object): void } }).__tractwiseMap.jumpTo({ zoom: 15.5 }));
+    await mapIdle(page);
+    await page.reload();
+    await mapIdle(page);
+    expect(page.url()).toContain('style=vacuum');
+    const zoom = await page.evaluate(() => (window as unknown as { __tractwiseMap: { getZoom(): number } }).__tractwiseMap.getZoom());
+    expect(zoom).toBeCloseTo(15.5, 1);
+    // Opening the map from the navigation brings the same filters back.
+    await page.goto(baseUrl + '/');
+    await page.waitForURL(/style=vacuum/);
+    await page.screenshot({ path: path.join(ARTIFACTS, 'map-phone-vacuum.png') });
+    await context.close();
+  });
+});

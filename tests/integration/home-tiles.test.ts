@@ -1,0 +1,113 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ApiClient, startTestApp, type TestApp } from '../setup/test-app.js';
+import { demoUser, otherCompanyUser } from '../setup/demo.js';
+import { decodeTile, tileFor } from '../setup/tiles.js';
+import { OUTCOMES } from '../../shared/schemas/enums.js';
+
+let app: TestApp;
+let tech: ApiClient;
+let home: { id: string; lon: number; lat: number };
+
+beforeAll(async () => {
+  app = await startTestApp();
+  tech = new ApiClient(app.url);
+  await tech.signIn(demoUser('technician'));
+  home = (await tech.get('/api/homes?limit=1')).body.homes[0];
+});
+afterAll(() => app.close());
+
+async function fetchTile(client: ApiClient, path: string) {
+  const res = await fetch(app.url + path, { headers: { Cookie: client.cookie } });
+  return { status: res.status, type: res.headers.get('content-type'), body: new Uint8Array(await res.arrayBuffer()) };
+}
+
+/**
+ * Homes of a company inside a tile's envelope grown (or shrunk) by `marginUnits` of the 4096 grid,
+ * counted by PostGIS directly.
+ */
+async function sqlCount(companyOf: string, z: number, x: number, y: number, extra = '', marginUnits = 0) {
+  const { rows } = await app.database.pool.query(
+    `select count(*)::int as n from homes h join users u on u.company_id = h.company_id
+     where u.email = $1 and ST_Intersects(ST_Transform(h.location, 3857), ST_TileEnvelope($2, $3, $4, margin => $5::float8 / 4096)) ${extra}`,
+    [companyOf, z, x, y, marginUnits],
+  );
+  return rows[0].n as number;
+}
+
+/** Features whose decoded point lies inside the tile proper (MVT spec 2.1 §4.3: tile coordinates 0..extent). */
+function insideCount(layer: { length: number; extent: number; feature(i: number): { loadGeometry(): { x: number; y: number }[][] } }) {
+  let n = 0;
+  for (let i = 0; i < layer.length; i++) {
+    const [p] = layer.feature(i).loadGeometry()[0];
+    if (p.x >= 0 && p.x < layer.extent && p.y >= 0 && p.y < layer.extent) n++;
+  }
+  return n;
+}
+
+/** Quantising to the 4096 grid moves a point by under one unit, so the exact count lies between these two. */
+async function expectSameHomes(layer: Parameters<typeof insideCount>[0], z: number, x: number, y: number, extra = '') {
+  const n = insideCount(layer);
+  expect(n).toBeGreaterThanOrEqual(await sqlCount(demoUser('technician'), z, x, y, extra, -1));
+  expect(n).toBeLessThanOrEqual(await sqlCount(demoUser('technician'), z, x, y, extra, 1));
+}
+
+describe('homes vector tiles', () => {
+  it('returns a valid Mapbox Vector Tile with every demo home in the tile and their properties', async () => {
+    const { z, x, y } = tileFor(home.lon, home.lat, 15);
+    const res = await fetchTile(tech, `/tiles/homes/${z}/${x}/${y}.pbf`);
+    expect(res.status).toBe(200);
+    expect(res.type).toBe('application/x-protobuf');
+    const layer = decodeTile(res.body).layers.homes;
+    expect(layer).toBeDefined();
+    expect(layer.extent).toBe(4096); // MVT spec 2.1 §4.2 default extent
+    await expectSameHomes(layer, z, x, y);
+    expect(layer.length).toBeGreaterThan(0);
+    const ids = Array.from({ length: layer.length }, (_, i) => layer.feature(i).properties.id);
+    expect(ids).toContain(home.id);
+    const f = layer.feature(ids.indexOf(home.id));
+    expect(f.type).toBe(1); // MVT spec 2.1 §4.3.4: 1 = POINT
+    expect(OUTCOMES).toContain(f.properties.outcome);
+    expect(f.properties).toHaveProperty('year');
+  });
+
+  it('filters by outcome exactly as a direct SQL count does', async () => {
+    const { z, x, y } = tileFor(home.lon, home.lat, 13);
+    const res = await fetchTile(tech, `/tiles/homes/${z}/${x}/${y}.pbf?outcome=not_visited`);
+    const layer = decodeTile(res.body).layers.homes;
+    await expectSameHomes(layer, z, x, y, "and h.outcome = 'not_visited'");
+    for (let i = 0; i < layer.length; i++) expect(layer.feature(i).properties.outcome).toBe('not_visited');
+  });
+
+  it('answers an empty, valid tile outside the town', async () => {
+    const res = await fetchTile(tech, '/tiles/homes/14/0/0.pbf');
+    expect(res.status).toBe(200);
+    expect(Object.keys(decodeTile(res.body).layers)).toEqual([]);
+  });
+
+  it("never draws another company's homes", async () => {
+    const other = new ApiClient(app.url);
+    await other.signIn(otherCompanyUser('admin'));
+    const { z, x, y } = tileFor(home.lon, home.lat, 15);
+    const layer = decodeTile((await fetchTile(other, `/tiles/homes/${z}/${x}/${y}.pbf`)).body).layers.homes;
+    const ids = layer ? Array.from({ length: layer.length }, (_, i) => layer.feature(i).properties.id) : [];
+    expect(ids).not.toContain(home.id);
+  });
+
+  it.each([
+    ['/tiles/homes/23/0/0.pbf', 'z'],
+    ['/tiles/homes/3/8/0.pbf', 'x'],
+    ['/tiles/homes/3/0/8.pbf', 'y'],
+    ['/tiles/homes/a/0/0.pbf', 'z'],
+    ['/tiles/homes/14/1/1.pbf?outcome=bogus', 'outcome'],
+  ])('rejects %s with 400 naming %s', async (path, field) => {
+    const res = await fetchTile(tech, path);
+    expect(res.status).toBe(400);
+    const body = JSON.parse(Buffer.from(res.body).toString());
+    expect(body.error.fields.map((f: { field: string }) => f.field)).toContain(field);
+  });
+
+  it('needs a signed-in user', async () => {
+    const res = await fetch(app.url + '/tiles/homes/14/1/1.pbf');
+    expect(res.status).toBe(401);
+  });
+});

@@ -19,6 +19,7 @@ import { buildersRouter } from './modules/builders/builders.router.js';
 import { communitiesRouter } from './modules/communities/communities.router.js';
 import { homesRouter } from './modules/homes/homes.router.js';
 import { homeTilesRouter } from './modules/home-tiles/home-tiles.router.js';
+import { basemapRouter } from './modules/basemap/basemap.router.js';
 
 export interface AppDeps {
   env: Env;
@@ -55,6 +56,8 @@ export function createApp({ env, database }: AppDeps): Express {
   );
 
   app.use('/api/health', healthRouter(pool));
+  // Map furniture (style, streets, glyphs) carries no customer data: served before sessions are read.
+  app.use(basemapRouter({ attribution: env.BASEMAP_ATTRIBUTION, pmtilesPath: env.BASEMAP_PMTILES }));
 
   const PgStore = connectPgSimple(session);
   app.use(

@@ -7,10 +7,12 @@ import type { ExpressionSpecification, LayerSpecification } from '@maplibre/mapl
  *
  * Layer ids are stable because the client and the browser tests refer to them. Both basemaps (the
  * demo town and a deployment's PMTiles archive) share the ids where the role is the same, so
- * client code can say "before street-labels" without knowing which basemap is running:
+ * client code can say "before street-labels" without knowing which basemap is running.
+ * Community outlines and names are drawn by the client from the signed-in company's own
+ * communities (always current, never another company's), so the style does not draw them:
  *
  *   background · landuse · water-fill · water-line · lots-fill · lots-outline · streets ·
- *   community-boundaries · street-labels · community-labels          (demo town)
+ *   street-labels                                                   (demo town)
  *   background · landuse · water-fill · water-line · streets · street-labels · place-labels
  *                                                                     (PMTiles archive)
  *
@@ -149,19 +151,6 @@ export const DEMO_LAYERS: LayerSpecification[] = [
     },
   },
   {
-    id: 'community-boundaries',
-    type: 'line',
-    source: BASE_SOURCE,
-    'source-layer': 'communities',
-    layout: { 'line-join': 'round' },
-    paint: {
-      'line-color': COLOURS.accent,
-      'line-opacity': 0.75,
-      'line-width': ['interpolate', ['linear'], ['zoom'], 10, 1, 16, 2],
-      'line-dasharray': [4, 3],
-    },
-  },
-  {
     id: 'street-labels',
     type: 'symbol',
     source: BASE_SOURCE,
@@ -180,21 +169,6 @@ export const DEMO_LAYERS: LayerSpecification[] = [
       'text-padding': 2,
     },
     paint: labelPaint,
-  },
-  {
-    // One point per community (see community_labels in the service), so a label is not repeated in every tile the outline crosses.
-    id: 'community-labels',
-    type: 'symbol',
-    source: BASE_SOURCE,
-    'source-layer': 'community_labels',
-    layout: {
-      'text-field': ['get', 'name'],
-      'text-font': [SEMIBOLD_FONT],
-      'text-size': ['interpolate', ['linear'], ['zoom'], 11, 11, 14, 13, 17, 15],
-      'text-letter-spacing': 0.04,
-      'text-max-width': 8,
-    },
-    paint: { ...labelPaint, 'text-color': COLOURS.accent },
   },
 ];
 

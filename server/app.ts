@@ -20,6 +20,12 @@ import { communitiesRouter } from './modules/communities/communities.router.js';
 import { homesRouter } from './modules/homes/homes.router.js';
 import { homeTilesRouter } from './modules/home-tiles/home-tiles.router.js';
 import { basemapRouter } from './modules/basemap/basemap.router.js';
+import { importsRouter } from './modules/imports/imports.router.js';
+import { insightRouter } from './modules/insight/insight.router.js';
+import { samplingRouter } from './modules/sampling/sampling.router.js';
+import { homeResultsRouter, quotesRouter } from './modules/quotes/quotes.router.js';
+import { createMailer } from './modules/mail/mail.service.js';
+import { mailRouter } from './modules/mail/mail.router.js';
 
 export interface AppDeps {
   env: Env;
@@ -106,6 +112,13 @@ export function createApp({ env, database }: AppDeps): Express {
   app.use('/api/builders', buildersRouter(db));
   app.use('/api/communities', communitiesRouter(db));
   app.use('/api/homes', homesRouter(db));
+  app.use('/api/imports', importsRouter(database, env));
+  const mailer = createMailer({ smtpUrl: env.SMTP_URL, from: env.MAIL_FROM, keepOutbox: env.NODE_ENV !== 'production' });
+  app.use('/api/insight', insightRouter(db));
+  app.use('/api/sampling', samplingRouter(db));
+  app.use('/api/quotes', quotesRouter(db, mailer));
+  app.use('/api/home-results', homeResultsRouter(db, mailer));
+  app.use('/api/mail', mailRouter(mailer));
   app.use('/api', notFoundHandler);
   app.use('/tiles/homes', homeTilesRouter(db));
 

@@ -20,6 +20,15 @@ const EnvSchema = z
     BASEMAP_PMTILES: z.string().optional(),
     BASEMAP_ATTRIBUTION: z.string().default('Demo town: invented data'),
     LOG_LEVEL: z.enum(['debug', 'info', 'warn', 'error', 'silent']).default('info'),
+    /** Street-range batch geocoder (CSV batch protocol); npm start and the tests run a local fake on loopback. */
+    GEOCODER_URL: z.string().url().default('http://127.0.0.1:3101/geocode'),
+    /** Largest CSV file an import accepts, in bytes (default 32 MiB). */
+    IMPORT_MAX_BYTES: z.coerce.number().int().min(1024).default(32 * 1024 * 1024),
+    /** Most data rows one import accepts. */
+    IMPORT_MAX_ROWS: z.coerce.number().int().min(1).default(200_000),
+    /** Outgoing mail (quotes, homeowner results); npm start and the tests run a local SMTP fake on loopback. */
+    SMTP_URL: z.string().url().default('smtp://127.0.0.1:2525'),
+    MAIL_FROM: z.string().min(3).default('Tractwise <no-reply@tractwise.invalid>'),
   })
   .superRefine((env, ctx) => {
     if (env.NODE_ENV === 'production' && env.SESSION_SECRET === 'local-development-session-secret') {

@@ -5,7 +5,8 @@ bootstrap
 ensure_database tractwise
 export DATABASE_URL="${DATABASE_URL:-$(database_url tractwise)}"
 node_modules/.bin/tsx server/scripts/prepare-db.ts
+start_fakes
 node_modules/.bin/tsx watch server/index.ts &
-api=$!
-trap 'kill $api 2>/dev/null' EXIT
+FAKE_PIDS+=($!)
+trap stop_fakes EXIT
 node_modules/.bin/vite

@@ -98,3 +98,27 @@ bootstrap() {
   ensure_node_modules
   start_postgres
 }
+
+# The local fakes of hosted services (street-range geocoder, SMTP), each its own process on
+# loopback. Skipped when the operator points the app at a real service. Their pids go to FAKE_PIDS.
+FAKE_PIDS=()
+start_fakes() {
+  mkdir -p .data/logs
+  if [ -z "${GEOCODER_URL:-}" ]; then
+    GEOCODER_FAKE_PORT="${GEOCODER_FAKE_PORT:-3101}" node --import tsx server/fakes/geocoder.ts >.data/logs/geocoder-fake.log 2>&1 &
+    FAKE_PIDS+=($!)
+    export GEOCODER_URL="http://127.0.0.1:${GEOCODER_FAKE_PORT:-3101}/geocode"
+  fi
+  if [ -z "${SMTP_URL:-}" ]; then
+    SMTP_FAKE_PORT="${SMTP_FAKE_PORT:-2525}" SMTP_FAKE_HTTP_PORT="${SMTP_FAKE_HTTP_PORT:-2526}" node --import tsx server/fakes/smtp.ts >.data/logs/smtp-fake.log 2>&1 &
+    FAKE_PIDS+=($!)
+    export SMTP_URL="smtp://127.0.0.1:${SMTP_FAKE_PORT:-2525}"
+  fi
+  if [ -z "${S3_ENDPOINT:-}" ] && [ -f server/fakes/s3.ts ]; then
+    S3_FAKE_PORT="${S3_FAKE_PORT:-4569}" node --import tsx server/fakes/s3.ts >.data/logs/s3-fake.log 2>&1 &
+    FAKE_PIDS+=($!)
+    export S3_ENDPOINT="http://127.0.0.1:${S3_FAKE_PORT:-4569}"
+  fi
+  [ ${#FAKE_PIDS[@]} -eq 0 ] || log "local fakes running (logs in .data/logs): geocoder ${GEOCODER_URL}, mail ${SMTP_URL}"
+}
+stop_fakes() { [ ${#FAKE_PIDS[@]} -eq 0 ] || kill "${FAKE_PIDS[@]}" 2>/dev/null || true; }

@@ -9,4 +9,10 @@ export SESSION_SECRET="${SESSION_SECRET:-$(cat .data/session-secret 2>/dev/null 
 node_modules/.bin/tsx server/scripts/prepare-db.ts
 log "building the client"
 node_modules/.bin/vite build --logLevel warn
-exec node --import tsx server/index.ts
+start_fakes
+trap stop_fakes EXIT
+trap 'exit 130' INT TERM
+node --import tsx server/index.ts &
+server=$!
+FAKE_PIDS+=($server)
+wait $server

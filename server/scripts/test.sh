@@ -7,6 +7,7 @@ ensure_chromium
 ensure_database tractwise_test
 ensure_database tractwise_e2e
 mkdir -p .data/test-results tests/artifacts
+rm -f .data/test-results/*.json
 
 log "building the client"
 node_modules/.bin/vite build --logLevel warn
@@ -30,7 +31,8 @@ node -e '
     const f = ".data/test-results/" + p + ".json";
     if (!fs.existsSync(f)) { failed++; console.log(p + ": no results (the suite did not run)"); continue; }
     const r = JSON.parse(fs.readFileSync(f, "utf8"));
-    passed += r.numPassedTests; failed += r.numFailedTests + (r.numFailedTestSuites || 0); skipped += r.numPendingTests + (r.numTodoTests || 0);
+    passed += r.numPassedTests; // A file that fails to load has no failed tests of its own: count it once.
+    failed += r.numFailedTests > 0 ? r.numFailedTests : (r.numFailedTestSuites || 0); skipped += r.numPendingTests + (r.numTodoTests || 0);
     console.log(p + ": " + r.numPassedTests + " passed, " + r.numFailedTests + " failed");
   }
   console.log(passed + " passed, " + failed + " failed, " + skipped + " skipped");

@@ -1,9 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { ChildProcess } from 'node:child_process';
 import path from 'node:path';
-import type { Page } from 'playwright-core';
 import { freePort, startServerProcess, stopServerProcess } from '../setup/server-process.js';
-import { ARTIFACTS, launchBrowser } from '../setup/browser.js';
+import { ARTIFACTS, homeScreenPoint, launchBrowser, signInAs, waitForMapIdle } from '../setup/browser.js';
 import { demoUser } from '../setup/demo.js';
 import { ApiClient } from '../setup/test-app.js';
 
@@ -22,22 +21,7 @@ afterAll(async () => {
   if (server) await stopServerProcess(server);
 });
 
-async function signIn(page: Page, role: 'technician' | 'manager') {
-  await page.goto(baseUrl + '/sign-in');
-  await page.getByLabel('E-mail').fill(demoUser(role));
-  await page.getByLabel('Password').fill('demo-pass-2026');
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'));
-}
 
-/** Waits until MapLibre has loaded its style and drawn every tile in view. */
-async function mapIdle(page: Page) {
-  await page.waitForFunction(() => {
-    const map = (window as unknown as { __tractwiseMap?: { loaded(): boolean; areTilesLoaded(): boolean; isMoving(): boolean } }).__tractwiseMap;
-    return Boolean(map && map.loaded() && map.areTilesLoaded() && !map.isMoving());
-  }, undefined, { timeout: 30_000 });
-  await page.waitForTimeout(300);
-}
 
 describe('the map', () => {
   it('draws the demo town with street labels from this origin only, and opens a tapped home', async () => {
@@ -49,8 +33,8 @@ describe('the map', () => {
     const page = await context.newPage();
     const requests: string[] = [];
     page.on('request', (r) => requests.push(r.url()));
-    await signIn(page, 'technician');
-    await mapIdle(page);
+    await signInAs(page, baseUrl, 'technician');
+    await waitForMapIdle(page, 'map');
 
     // Street names are drawn: rendered label features from the basemap's symbol layers.
     const labels = await page.evaluate(() => {
@@ -70,10 +54,12 @@ describe('the map', () => {
     await search.press('Enter');
     await expect(page.getByTestId('home-address').textContent()).resolves.toBe(target.address);
     await page.getByRole('button', { name: 'Close home panel' }).click();
-    await mapIdle(page);
+    await waitForMapIdle(page, 'map');
 
-    // Tap the home: after the fly-to it sits at the centre of the map.
-    await page.mouse.click(640, 400 + 0);
+    // Tap the home where MapLibre drew it (the fly-to left it in view).
+    const point = await homeScreenPoint(page, target.id);
+    expect(point).not.toBeNull();
+    await page.mouse.click(point!.x, point!.y);
     await page.getByTestId('home-address').waitFor();
     expect(await page.getByTestId('home-address').textContent()).toBe(target.address);
     await page.screenshot({ path: path.join(ARTIFACTS, 'map-home-panel.png') });
@@ -89,8 +75,8 @@ describe('the map', () => {
   it('keeps filters in the URL and restores camera and filters after a reload', async () => {
     const context = await browserHandle.browser.newContext({ viewport: { width: 390, height: 844 } });
     const page = await context.newPage();
-    await signIn(page, 'manager');
-    await mapIdle(page);
+    await signInAs(page, baseUrl, 'manager');
+    await waitForMapIdle(page, 'map');
     await page.getByRole('button', { name: 'Filters and style' }).click();
     await page.getByLabel('Show homes by').selectOption('vacuum');
     await page.getByRole('checkbox', { name: 'Above the action level or needs rework' }).check();
@@ -99,9 +85,9 @@ describe('the map', () => {
     await expect(page.getByRole('region', { name: 'Legend' }).textContent()).resolves.toContain('in. WC');
 
     await page.evaluate(() => (window as unknown as { __tractwiseMap: { jumpTo(o: object): void } }).__tractwiseMap.jumpTo({ zoom: 15.5 }));
-    await mapIdle(page);
+    await waitForMapIdle(page, 'map');
     await page.reload();
-    await mapIdle(page);
+    await waitForMapIdle(page, 'map');
     expect(page.url()).toContain('style=vacuum');
     const zoom = await page.evaluate(() => (window as unknown as { __tractwiseMap: { getZoom(): number } }).__tractwiseMap.getZoom());
     expect(zoom).toBeCloseTo(15.5, 1);

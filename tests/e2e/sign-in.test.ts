@@ -33,7 +33,8 @@ describe('signing in through the browser', () => {
     await page.waitForURL(baseUrl + '/homes');
 
     const nav = page.getByRole('navigation', { name: 'Main' });
-    await expect(nav.getByRole('link', { name: 'Map' }).isVisible()).resolves.toBe(true);
+    // The shell renders once the session query answers; wait for it rather than sampling once.
+    await nav.getByRole('link', { name: 'Map' }).waitFor({ state: 'visible' });
     // A technician never sees navigation it cannot use.
     await expect(nav.getByRole('link', { name: 'Settings' }).count()).resolves.toBe(0);
     await expect(nav.getByRole('link', { name: 'Builders' }).count()).resolves.toBe(0);

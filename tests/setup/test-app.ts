@@ -12,9 +12,12 @@ export interface TestApp {
   close(): Promise<void>;
 }
 
-/** The real app on an ephemeral loopback port, against the test database. */
-export async function startTestApp(): Promise<TestApp> {
-  const env = parseEnv({ DATABASE_URL: process.env.TEST_DATABASE_URL, NODE_ENV: 'test', LOG_LEVEL: 'error', CLIENT_DIST: '/nonexistent' });
+/**
+ * The real app on an ephemeral loopback port, against the test database. `overrides` sets further
+ * configuration keys (e.g. SMTP_URL of an in-process SMTP fake).
+ */
+export async function startTestApp(overrides: Record<string, string> = {}): Promise<TestApp> {
+  const env = parseEnv({ DATABASE_URL: process.env.TEST_DATABASE_URL, NODE_ENV: 'test', LOG_LEVEL: 'error', CLIENT_DIST: '/nonexistent', ...overrides });
   const database = createDatabase(env.DATABASE_URL, 4);
   const app = createApp({ env, database });
   const server: Server = await new Promise((resolve) => {

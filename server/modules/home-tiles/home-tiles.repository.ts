@@ -16,7 +16,13 @@ export async function homesTile(db: DbOrTx, companyId: string, z: number, x: num
   if (filter.yearTo !== undefined) conditions.push(sql`h.year_built <= ${filter.yearTo}`);
   if (filter.outcome?.length) conditions.push(sql`h.outcome in ${filter.outcome}`);
   const result = await db.execute<{ mvt: Buffer }>(sql`
-    with bounds as (select ST_TileEnvelope(${z}, ${x}, ${y}) as merc, ST_Transform(ST_TileEnvelope(${z}, ${x}, ${y}, margin => 0.02), 4326) as geo)
+    with latest_plans as (
+      -- The latest sampling plan of each community; its unvisited homes are drawn as "planned".
+      select distinct on (community_id) id from sampling_plans
+      where company_id = ${companyId} order by community_id, created_at desc, id desc
+    ),
+    planned_homes as (select home_id from sampling_plan_homes where plan_id in (select id from latest_plans)),
+    bounds as (select ST_TileEnvelope(${z}, ${x}, ${y}) as merc, ST_Transform(ST_TileEnvelope(${z}, ${x}, ${y}, margin => 0.02), 4326) as geo)
     select ST_AsMVT(t.*, 'homes', 4096, 'geom') as mvt from (
       select
         ST_AsMVTGeom(ST_Transform(h.location, 3857), bounds.merc, 4096, 64, true) as geom,
@@ -25,7 +31,8 @@ export async function homesTile(db: DbOrTx, companyId: string, z: number, x: num
         h.year_built as year,
         round((h.last_vacuum_pa / ${IN_WC_TO_PA})::numeric, 2)::float8 as vacuum_in_wc,
         round((h.last_post_bq_m3 / ${PCI_PER_L_TO_BQ_M3})::numeric, 1)::float8 as post_pci_l,
-        h.rework_flag as rework
+        h.rework_flag as rework,
+        (h.outcome = 'not_visited' and h.id in (select home_id from planned_homes)) as planned
       from homes h, bounds
       where h.location && bounds.geo and ${sql.join(conditions, sql` and `)}
     ) t where t.geom is not null`);

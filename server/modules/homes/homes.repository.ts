@@ -138,3 +138,18 @@ export function listTestsForHome(db: DbOrTx, companyId: string, homeId: string) 
     .where(and(eq(radonTests.companyId, companyId), eq(radonTests.homeId, homeId)))
     .orderBy(desc(radonTests.endedAt));
 }
+
+/** True when the home is in its community's latest sampling plan and not yet visited ("sample this home"). */
+export async function isPlannedForSampling(db: DbOrTx, companyId: string, homeId: string) {
+  const result = await db.execute<{ planned: boolean }>(sql`
+    select exists (
+      select 1 from homes h
+      join sampling_plan_homes sph on sph.home_id = h.id
+      where h.company_id = ${companyId} and h.id = ${homeId} and h.outcome = 'not_visited'
+        and sph.plan_id = (
+          select sp.id from sampling_plans sp
+          where sp.company_id = h.company_id and sp.community_id = h.community_id
+          order by sp.created_at desc, sp.id desc limit 1)
+    ) as planned`);
+  return result.rows[0]?.planned === true;
+}

@@ -33,11 +33,12 @@ export async function getHome(db: Db, viewer: Viewer, id: string) {
 
 export async function getHomeDetail(db: Db, viewer: Viewer, id: string) {
   const home = await getHome(db, viewer, id);
-  const [visits, tests] = await Promise.all([
+  const [visits, tests, planned] = await Promise.all([
     repo.listVisitsForHome(db, viewer.companyId, id),
     repo.listTestsForHome(db, viewer.companyId, id),
+    repo.isPlannedForSampling(db, viewer.companyId, id),
   ]);
-  return { home, visits, tests };
+  return { home, visits, tests, planned };
 }
 
 async function checkReferences(db: Db, companyId: string, body: { communityId?: string | null; builderId?: string | null }) {

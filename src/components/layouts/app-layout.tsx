@@ -10,6 +10,10 @@ export const NAV: { to: string; label: string; roles: readonly Role[] }[] = [
   { to: '/homes', label: 'Homes', roles: ['admin', 'manager', 'estimator', 'technician', 'sales'] },
   { to: '/communities', label: 'Communities', roles: ['admin', 'manager', 'estimator', 'sales'] },
   { to: '/builders', label: 'Builders', roles: ['admin', 'manager', 'estimator'] },
+  { to: '/imports', label: 'Import addresses', roles: ['admin', 'manager', 'estimator'] },
+  { to: '/compare-builders', label: 'Compare builders', roles: ['admin', 'manager', 'estimator'] },
+  { to: '/plan-sample', label: 'Plan a sample', roles: ['admin', 'manager', 'estimator'] },
+  { to: '/quotes', label: 'Quote a community', roles: ['admin', 'manager', 'estimator'] },
   { to: '/settings', label: 'Settings', roles: ['admin'] },
 ];
 

@@ -6,6 +6,8 @@ export interface HomeDetail {
   home: HomeDto;
   visits: { id: string; visitedOn: string; status: string; vacuumPa: number | null; subSlabMaterial: string; reworkNeeded: boolean; reworkDone: boolean; reworkReasons: string[]; notes: string }[];
   tests: { id: string; kind: string; device: string; startedAt: string; endedAt: string; resultBqM3: number; sideBySideGroup: string | null }[];
+  /** In its community's latest sampling plan and not yet visited. */
+  planned: boolean;
 }
 
 export const homeQueryOptions = (id: string) =>

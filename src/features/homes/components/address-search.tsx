@@ -1,5 +1,6 @@
 import { useId, useState } from 'react';
-import { useHomes } from '../api/get-homes';
+import { useQuery } from '@tanstack/react-query';
+import { getHomes } from '../api/get-homes';
 import type { HomeDto } from '@shared/schemas/homes';
 
 /** Address search as an ARIA combobox: arrows move, Enter picks, Escape closes. */
@@ -8,8 +9,14 @@ export function AddressSearch({ onPick }: { onPick(home: HomeDto): void }) {
   const [open, setOpen] = useState(false);
   const [active, setActive] = useState(0);
   const listId = useId();
-  const { data } = useHomes({ q: q.trim(), limit: 8 });
-  const results = q.trim().length >= 2 ? (data?.homes ?? []) : [];
+  const term = q.trim();
+  // No placeholder data here: Enter must never pick a row left over from an earlier query.
+  const { data } = useQuery({
+    queryKey: ['homes', 'search', term],
+    queryFn: ({ signal }) => getHomes({ q: term, limit: 8 }, signal),
+    enabled: term.length >= 2,
+  });
+  const results = term.length >= 2 ? (data?.homes ?? []) : [];
 
   function pick(home: HomeDto) {
     onPick(home);

@@ -58,6 +58,12 @@ export function HomePanel({
       {data && (
         <>
           <OutcomeBadge outcome={data.home.outcome} />
+          {data.planned && (
+            <p data-testid="sample-this-home" className="flex items-center gap-2 rounded-md border border-state-planned/50 bg-state-planned/5 p-2 text-sm font-medium text-state-planned">
+              <span aria-hidden className="inline-block h-3.5 w-3.5 rounded-full border-2 border-dashed border-state-planned" />
+              Sample this home: it is in the community's sampling plan.
+            </p>
+          )}
           {actions && <div className="flex flex-wrap gap-2">{actions}</div>}
           <dl className="text-sm tabular">
             <Row label="Community">{data.home.communityName ?? '—'}</Row>

@@ -15,12 +15,13 @@ export const outcomeLayer: LayerProps = {
   source: HOMES_SOURCE,
   'source-layer': HOMES_SOURCE_LAYER,
   layout: {
-    'icon-image': iconByOutcome as never,
+    // Homes in their community's latest sampling plan, not yet visited, get the "planned" symbol.
+    'icon-image': ['case', ['==', ['get', 'planned'], true], iconName('planned'), iconByOutcome] as never,
     'icon-size': ['interpolate', ['linear'], ['zoom'], 12, 0.45, 15, 0.8, 18, 1.2],
     'icon-allow-overlap': true,
     'icon-ignore-placement': true,
     // Problems draw on top of everything else.
-    'symbol-sort-key': ['match', ['get', 'outcome'], 'needs_rework', 3, 'reworked_below', 2, 'below_action_level', 2, 'not_visited', 0, 1],
+    'symbol-sort-key': ['case', ['==', ['get', 'planned'], true], 1, ['match', ['get', 'outcome'], 'needs_rework', 3, 'reworked_below', 2, 'below_action_level', 2, 'not_visited', 0, 1]] as never,
   },
 };
 

@@ -1,0 +1,99 @@
+import { and, desc, eq, sql } from 'drizzle-orm';
+import type { DbOrTx } from '../../db/client.js';
+import { communities, homes, samplingPlanHomes, samplingPlans, users } from '../../db/schema/tables.js';
+
+/** Homes, sampled homes and failures of one community, from the derived flags on each home. */
+export async function communityCounts(db: DbOrTx, companyId: string, communityId: string) {
+  const [row] = await db
+    .select({
+      name: communities.name,
+      homesTotal: sql<number>`(select count(*)::int from ${homes} h where h.company_id = ${companyId} and h.community_id = ${communityId})`,
+      sampled: sql<number>`(select count(*)::int from ${homes} h where h.company_id = ${companyId} and h.community_id = ${communityId} and h.sampled)`,
+      failures: sql<number>`(select count(*)::int from ${homes} h where h.company_id = ${companyId} and h.community_id = ${communityId} and h.sampled and h.failed)`,
+    })
+    .from(communities)
+    .where(and(eq(communities.companyId, companyId), eq(communities.id, communityId)));
+  return row;
+}
+
+/** Homes that may still be sampled: not yet sampled, not declined, and not marked do-not-contact. */
+export function candidateHomes(db: DbOrTx, companyId: string, communityId: string) {
+  return db
+    .select({
+      id: homes.id,
+      street: homes.street,
+      lon: sql<number>`ST_X(${homes.location})`,
+      lat: sql<number>`ST_Y(${homes.location})`,
+      doNotContact: homes.doNotContact,
+    })
+    .from(homes)
+    .where(
+      and(
+        eq(homes.companyId, companyId),
+        eq(homes.communityId, communityId),
+        eq(homes.sampled, false),
+        eq(homes.doNotContact, false),
+        sql`${homes.outcome} <> 'declined'`,
+      ),
+    );
+}
+
+export async function insertPlan(
+  db: DbOrTx,
+  values: { companyId: string; communityId: string; marginOfError: number; expectedRate: number; sampleSize: number; createdBy: string },
+  homeIds: string[],
+) {
+  const [row] = await db.insert(samplingPlans).values(values).returning({ id: samplingPlans.id });
+  if (homeIds.length) await db.insert(samplingPlanHomes).values(homeIds.map((homeId) => ({ planId: row.id, homeId })));
+  return row.id;
+}
+
+const planColumns = {
+  id: samplingPlans.id,
+  communityId: samplingPlans.communityId,
+  communityName: communities.name,
+  marginOfError: samplingPlans.marginOfError,
+  expectedRate: samplingPlans.expectedRate,
+  sampleSize: samplingPlans.sampleSize,
+  createdAt: samplingPlans.createdAt,
+  createdByName: users.name,
+};
+
+export function listPlans(db: DbOrTx, companyId: string, communityId?: string) {
+  return db
+    .select(planColumns)
+    .from(samplingPlans)
+    .innerJoin(communities, eq(communities.id, samplingPlans.communityId))
+    .leftJoin(users, eq(users.id, samplingPlans.createdBy))
+    .where(and(eq(samplingPlans.companyId, companyId), communityId ? eq(samplingPlans.communityId, communityId) : undefined))
+    .orderBy(desc(samplingPlans.createdAt), desc(samplingPlans.id))
+    .limit(100);
+}
+
+export async function findPlan(db: DbOrTx, companyId: string, id: string) {
+  const [row] = await db
+    .select(planColumns)
+    .from(samplingPlans)
+    .innerJoin(communities, eq(communities.id, samplingPlans.communityId))
+    .leftJoin(users, eq(users.id, samplingPlans.createdBy))
+    .where(and(eq(samplingPlans.companyId, companyId), eq(samplingPlans.id, id)));
+  return row;
+}
+
+export function planHomes(db: DbOrTx, companyId: string, planId: string) {
+  return db
+    .select({
+      id: homes.id,
+      number: homes.number,
+      street: homes.street,
+      unit: homes.unit,
+      lon: sql<number>`ST_X(${homes.location})`,
+      lat: sql<number>`ST_Y(${homes.location})`,
+      outcome: homes.outcome,
+      sampled: homes.sampled,
+    })
+    .from(samplingPlanHomes)
+    .innerJoin(homes, eq(homes.id, samplingPlanHomes.homeId))
+    .where(and(eq(samplingPlanHomes.planId, planId), eq(homes.companyId, companyId)))
+    .orderBy(homes.street, sql`length(${homes.number})`, homes.number);
+}

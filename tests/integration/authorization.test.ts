@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ROLES, type Role } from '../../shared/schemas/enums.js';
+import { CONTACT_ROLES, ROLES, type Role } from '../../shared/schemas/enums.js';
 import { ApiClient, startTestApp, type TestApp } from '../setup/test-app.js';
 import { demoUser, otherCompanyUser } from '../setup/demo.js';
 
@@ -34,6 +34,8 @@ afterAll(() => app.close());
 const ALL: readonly Role[] = ROLES;
 const EDITORS: readonly Role[] = ['admin', 'manager', 'estimator'];
 const ADMIN: readonly Role[] = ['admin'];
+/** An id no company has. */
+const NOBODY = '00000000-0000-4000-8000-000000000000';
 let seq = 0;
 const unique = (prefix: string) => `${prefix} ${Date.now()}-${seq++}`;
 
@@ -94,6 +96,33 @@ const cases: RouteCase[] = [
       c.delete(
         `/api/homes/${(await admin.post('/api/homes', { number: String(80000 + seq++), street: 'Test Loop', city: 'Testville', state: 'ZZ', zip: '00001', lon: 10, lat: 10 })).body.home.id}`,
       ),
+  },
+  // Address imports (survey editors). Routes that need a stored batch are walked with an id no company has:
+  // an allowed role passes the role gate and gets 404, any other role is stopped at the gate with 403.
+  { route: 'GET /api/imports', allowed: EDITORS, ok: 200, send: (c) => c.get('/api/imports') },
+  { route: 'POST /api/imports/mapping-suggestions', allowed: EDITORS, ok: 200, send: (c) => c.post('/api/imports/mapping-suggestions', { headers: ['Address', 'City'] }) },
+  { route: 'POST /api/imports (no file)', allowed: EDITORS, ok: 400, send: (c) => c.post('/api/imports', {}) },
+  { route: 'GET /api/imports/:id', allowed: EDITORS, ok: 404, send: (c) => c.get(`/api/imports/${NOBODY}`) },
+  { route: 'GET /api/imports/:id/errors.csv', allowed: EDITORS, ok: 404, send: (c) => c.get(`/api/imports/${NOBODY}/errors.csv`) },
+  { route: 'POST /api/imports/:id/undo', allowed: EDITORS, ok: 404, send: (c) => c.post(`/api/imports/${NOBODY}/undo`, {}) },
+  // Builder comparison, sampling plans, quotes.
+  { route: 'GET /api/insight/builders', allowed: EDITORS, ok: 200, send: (c) => c.get('/api/insight/builders') },
+  { route: 'GET /api/sampling/size', allowed: EDITORS, ok: 200, send: (c) => c.get(`/api/sampling/size?communityId=${communityId}&marginOfError=0.1&expectedRate=0.3`) },
+  { route: 'GET /api/sampling/plans', allowed: EDITORS, ok: 200, send: (c) => c.get('/api/sampling/plans') },
+  { route: 'GET /api/sampling/plans/:id', allowed: EDITORS, ok: 404, send: (c) => c.get(`/api/sampling/plans/${NOBODY}`) },
+  { route: 'POST /api/sampling/plans (invalid body)', allowed: EDITORS, ok: 400, send: (c) => c.post('/api/sampling/plans', {}) },
+  { route: 'GET /api/quotes', allowed: EDITORS, ok: 200, send: (c) => c.get('/api/quotes') },
+  { route: 'GET /api/quotes/:id', allowed: EDITORS, ok: 404, send: (c) => c.get(`/api/quotes/${NOBODY}`) },
+  { route: 'GET /api/quotes/:id/pdf', allowed: EDITORS, ok: 404, send: (c) => c.get(`/api/quotes/${NOBODY}/pdf`) },
+  { route: 'POST /api/quotes (invalid body)', allowed: EDITORS, ok: 400, send: (c) => c.post('/api/quotes', {}) },
+  { route: 'POST /api/quotes/:id/approve', allowed: ['admin', 'manager'], ok: 404, send: (c) => c.post(`/api/quotes/${NOBODY}/approve`, {}) },
+  { route: 'POST /api/quotes/:id/send', allowed: EDITORS, ok: 404, send: (c) => c.post(`/api/quotes/${NOBODY}/send`, {}) },
+  { route: 'POST /api/quotes/:id/decision', allowed: EDITORS, ok: 404, send: (c) => c.post(`/api/quotes/${NOBODY}/decision`, { decision: 'accepted' }) },
+  {
+    route: 'POST /api/home-results/:id/email',
+    allowed: CONTACT_ROLES,
+    ok: 404,
+    send: (c) => c.post(`/api/home-results/${NOBODY}/email`, { recipientEmail: 'owner@example.test' }),
   },
 ];
 

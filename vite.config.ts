@@ -1,12 +1,44 @@
 import { defineConfig } from 'vitest/config';
 import react from '@vitejs/plugin-react';
 import tailwindcss from '@tailwindcss/vite';
+import { VitePWA } from 'vite-plugin-pwa';
 import { fileURLToPath } from 'node:url';
 
 const apiPort = process.env.PORT ?? '3000';
 
 export default defineConfig({
-  plugins: [react(), tailwindcss()],
+  plugins: [
+    react(),
+    tailwindcss(),
+    // Service worker (Workbox, generated at build): the app shell and every hashed asset are precached, so
+    // the app opens without a connection after one online visit. Customer data (/api, /tiles/homes) is never
+    // cached by it; the basemap (no customer data) is kept as it is used, so the streets still draw offline.
+    VitePWA({
+      strategies: 'generateSW',
+      injectRegister: false, // registered in src/main.tsx, production builds only
+      manifest: false,
+      workbox: {
+        globPatterns: ['**/*.{js,mjs,css,html,svg,woff2}'],
+        // The map chunk and its worker are over Workbox's 2 MiB default between them.
+        maximumFileSizeToCacheInBytes: 4 * 1024 * 1024,
+        navigateFallback: '/index.html',
+        navigateFallbackDenylist: [/^\/api\//, /^\/tiles\//, /^\/glyphs\//, /^\/map\//],
+        cleanupOutdatedCaches: true,
+        runtimeCaching: [
+          {
+            urlPattern: ({ url, sameOrigin }) => sameOrigin && url.pathname === '/map/style.json',
+            handler: 'NetworkFirst',
+            options: { cacheName: 'basemap-style', networkTimeoutSeconds: 4, cacheableResponse: { statuses: [200] } },
+          },
+          {
+            urlPattern: ({ url, sameOrigin }) => sameOrigin && (url.pathname.startsWith('/tiles/base/') || url.pathname.startsWith('/glyphs/')),
+            handler: 'StaleWhileRevalidate',
+            options: { cacheName: 'basemap-tiles', cacheableResponse: { statuses: [200] }, expiration: { maxEntries: 3000, maxAgeSeconds: 30 * 24 * 3600 } },
+          },
+        ],
+      },
+    }),
+  ],
   resolve: {
     alias: {
       '@': fileURLToPath(new URL('./src', import.meta.url)),

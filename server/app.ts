@@ -26,16 +26,22 @@ import { samplingRouter } from './modules/sampling/sampling.router.js';
 import { homeResultsRouter, quotesRouter } from './modules/quotes/quotes.router.js';
 import { createMailer } from './modules/mail/mail.service.js';
 import { mailRouter } from './modules/mail/mail.router.js';
+import { createObjectStorage, type ObjectStorage } from './lib/object-storage.js';
+import { fansRouter } from './modules/fans/fans.router.js';
+import { visitsRouter } from './modules/visits/visits.router.js';
+import { attachmentsRouter, homeAttachmentsRouter } from './modules/attachments/attachments.router.js';
 
 export interface AppDeps {
   env: Env;
   database: Database;
+  /** Photo and lab-report storage; by default an S3 client for the configured endpoint. */
+  storage?: ObjectStorage;
 }
 
 const UNSAFE = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 
 /** Builds the Express app; tests import this and listen on an ephemeral port. */
-export function createApp({ env, database }: AppDeps): Express {
+export function createApp({ env, database, storage = createObjectStorage(env) }: AppDeps): Express {
   const app = express();
   const { db, pool } = database;
   app.disable('x-powered-by');
@@ -112,6 +118,10 @@ export function createApp({ env, database }: AppDeps): Express {
   app.use('/api/builders', buildersRouter(db));
   app.use('/api/communities', communitiesRouter(db));
   app.use('/api/homes', homesRouter(db));
+  app.use('/api/homes', visitsRouter(db));
+  app.use('/api/homes', homeAttachmentsRouter(db, storage));
+  app.use('/api/attachments', attachmentsRouter(db, storage));
+  app.use('/api/fans', fansRouter(db));
   app.use('/api/imports', importsRouter(database, env));
   const mailer = createMailer({ smtpUrl: env.SMTP_URL, from: env.MAIL_FROM, keepOutbox: env.NODE_ENV !== 'production' });
   app.use('/api/insight', insightRouter(db));
@@ -124,9 +134,21 @@ export function createApp({ env, database }: AppDeps): Express {
 
   const clientDist = path.resolve(env.CLIENT_DIST);
   if (fs.existsSync(path.join(clientDist, 'index.html'))) {
-    app.use(express.static(clientDist, { index: false, maxAge: '1h' }));
+    app.use(
+      express.static(clientDist, {
+        index: false,
+        maxAge: '1h',
+        setHeaders(res, file) {
+          // Hashed assets may be cached; the service worker and its manifest must be re-checked every time,
+          // or a phone keeps running an old app shell.
+          const name = path.basename(file);
+          if (file.includes(`${path.sep}assets${path.sep}`)) res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
+          else if (name === 'sw.js' || name.startsWith('workbox-') || name === 'manifest.webmanifest' || name === 'index.html') res.setHeader('Cache-Control', 'no-cache');
+        },
+      }),
+    );
     // Client-side routes: every other GET gets the app shell.
-    app.get('/{*splat}', (_req, res) => res.sendFile(path.join(clientDist, 'index.html')));
+    app.get('/{*splat}', (_req, res) => res.sendFile(path.join(clientDist, 'index.html'), { headers: { 'Cache-Control': 'no-cache' } }));
   }
   app.use(notFoundHandler);
   app.use(errorHandler);

@@ -3,17 +3,21 @@ import { createDatabase } from './db/client.js';
 import { runMigrations } from './db/migrate.js';
 import { createApp } from './app.js';
 import { logger } from './lib/logger.js';
+import { createObjectStorage, ensureBucketAtStart } from './lib/object-storage.js';
 
 const config = env();
 const database = createDatabase(config.DATABASE_URL);
 await runMigrations(database);
-const app = createApp({ env: config, database });
+const storage = createObjectStorage(config);
+const app = createApp({ env: config, database, storage });
 const server = app.listen(config.PORT, config.HOST, () => {
   const url = `http://localhost:${config.PORT}`;
   process.stdout.write(`\nTractwise is running at ${url}\n`);
   process.stdout.write(`Demo sign-ins (password demo-pass-2026): admin@tarrowby-radon.test, manager@…, estimator@…, technician@…, sales@… (README.md)\n\n`);
   logger.info('listening', { host: config.HOST, port: config.PORT });
 });
+// In the background: the store (or the local fake started beside this process) may still be starting.
+void ensureBucketAtStart(storage);
 
 function shutdown(signal: string) {
   logger.info('shutting down', { signal });

@@ -29,6 +29,15 @@ const EnvSchema = z
     /** Outgoing mail (quotes, homeowner results); npm start and the tests run a local SMTP fake on loopback. */
     SMTP_URL: z.string().url().default('smtp://127.0.0.1:2525'),
     MAIL_FROM: z.string().min(3).default('Tractwise <no-reply@tractwise.invalid>'),
+    /**
+     * S3-compatible object storage for photos and lab reports (path-style requests). The bucket is
+     * private: files reach users only through the API. npm start and the tests run a local fake on loopback.
+     */
+    S3_ENDPOINT: z.string().url().default('http://127.0.0.1:4569'),
+    S3_BUCKET: z.string().min(3).max(63).default('tractwise'),
+    S3_REGION: z.string().min(1).default('us-east-1'),
+    S3_ACCESS_KEY_ID: z.string().min(1).default('S3RVER'),
+    S3_SECRET_ACCESS_KEY: z.string().min(1).default('S3RVER'),
   })
   .superRefine((env, ctx) => {
     if (env.NODE_ENV === 'production' && env.SESSION_SECRET === 'local-development-session-secret') {

@@ -7,6 +7,7 @@ export type ErrorCode =
   | 'UNPROCESSABLE'
   | 'CSRF_INVALID'
   | 'PAYLOAD_TOO_LARGE'
+  | 'SERVICE_UNAVAILABLE'
   | 'INTERNAL';
 
 export interface FieldError {

@@ -1,6 +1,7 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { AppError } from '../lib/errors.js';
 import { logger } from '../lib/logger.js';
+import { StorageUnavailableError } from '../lib/object-storage.js';
 
 export const notFoundHandler: RequestHandler = (req) => {
   throw new AppError('NOT_FOUND', 404, `No route for ${req.method} ${req.path}`);
@@ -16,6 +17,9 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   let appError: AppError;
   if (err instanceof AppError) {
     appError = err;
+  } else if (err instanceof StorageUnavailableError) {
+    logger.error('object storage unavailable', { requestId, method: req.method, path: req.path, err: String(err) });
+    appError = new AppError('SERVICE_UNAVAILABLE', 503, 'File storage is unavailable right now; try again in a moment');
   } else if (err?.type === 'entity.too.large') {
     appError = new AppError('PAYLOAD_TOO_LARGE', 413, 'The request body is too large');
   } else if (err?.type === 'entity.parse.failed') {

@@ -115,10 +115,22 @@ start_fakes() {
     export SMTP_URL="smtp://127.0.0.1:${SMTP_FAKE_PORT:-2525}"
   fi
   if [ -z "${S3_ENDPOINT:-}" ] && [ -f server/fakes/s3.ts ]; then
+    # Objects persist in .data/s3 between runs, like the database.
     S3_FAKE_PORT="${S3_FAKE_PORT:-4569}" node --import tsx server/fakes/s3.ts >.data/logs/s3-fake.log 2>&1 &
     FAKE_PIDS+=($!)
     export S3_ENDPOINT="http://127.0.0.1:${S3_FAKE_PORT:-4569}"
+    # The server makes its bucket at start: let the store listen first.
+    wait_for_port "${S3_FAKE_PORT:-4569}" || log "the S3 fake is not listening yet (see .data/logs/s3-fake.log)"
   fi
-  [ ${#FAKE_PIDS[@]} -eq 0 ] || log "local fakes running (logs in .data/logs): geocoder ${GEOCODER_URL}, mail ${SMTP_URL}"
+  [ ${#FAKE_PIDS[@]} -eq 0 ] || log "local fakes running (logs in .data/logs): geocoder ${GEOCODER_URL}, mail ${SMTP_URL}, files ${S3_ENDPOINT:-none}"
+}
+# Waits up to ~15 s for something to listen on a loopback port.
+wait_for_port() {
+  local i
+  for i in $(seq 1 75); do
+    if (exec 3<>"/dev/tcp/127.0.0.1/$1") 2>/dev/null; then return 0; fi
+    sleep 0.2
+  done
+  return 1
 }
 stop_fakes() { [ ${#FAKE_PIDS[@]} -eq 0 ] || kill "${FAKE_PIDS[@]}" 2>/dev/null || true; }

@@ -45,3 +45,5 @@ export type Outcome = (typeof OUTCOMES)[number];
 export const CONTACT_ROLES: readonly Role[] = ['admin', 'manager', 'estimator', 'sales'];
 /** Who may create and edit builders, communities and homes. */
 export const SURVEY_EDITOR_ROLES: readonly Role[] = ['admin', 'manager', 'estimator'];
+/** Who records field work (visits, radon tests, their photos and lab reports). */
+export const FIELD_ROLES: readonly Role[] = ['technician', 'admin', 'manager'];

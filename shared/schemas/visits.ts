@@ -30,6 +30,9 @@ export const FanCurvePoints = z
       if (sorted[i].flowCfm === sorted[i - 1].flowCfm) ctx.addIssue({ code: 'custom', message: 'flows must be distinct' });
       else if (sorted[i].staticInWc > sorted[i - 1].staticInWc) ctx.addIssue({ code: 'custom', message: 'static pressure must not rise with flow' });
     }
+    if (points.length > 0 && Math.max(...points.map((p) => p.staticInWc)) <= 0) {
+      ctx.addIssue({ code: 'custom', message: 'needs a static pressure above 0 (the fan\'s maximum, at no flow)' });
+    }
   });
 
 export const FanBody = z.object({
@@ -44,6 +47,12 @@ export const FanDto = z.object({
   curve: z.array(FanCurvePointSchema),
 });
 export type FanDto = z.infer<typeof FanDto>;
+
+export const HomeIdParams = z.object({ homeId: z.string().uuid() });
+export const AttachmentUploadParams = z.object({ homeId: z.string().uuid(), attachmentId: z.string().uuid() });
+
+/** An attachment as a visit or test lists it; the bytes are at GET /api/attachments/:id (and /thumbnail for photos). */
+export const AttachmentRef = z.object({ id: z.string().uuid(), kind: z.enum(ATTACHMENT_KINDS), subject: z.string().nullable(), contentType: z.string() });
 
 // ── Visits ────────────────────────────────────────────────────────────────────────────────────────
 
@@ -112,7 +121,7 @@ export const VisitDto = z.object({
   reworkDone: z.boolean(),
   reworkReasons: z.array(z.string()),
   notes: z.string(),
-  attachments: z.array(z.object({ id: z.string().uuid(), kind: z.enum(ATTACHMENT_KINDS), subject: z.string().nullable(), contentType: z.string() })),
+  attachments: z.array(AttachmentRef),
 });
 export type VisitDto = z.infer<typeof VisitDto>;
 
@@ -148,6 +157,37 @@ export const RadonTestDto = z.object({
   resultBqM3: z.number(),
   sideBySideGroup: z.string().nullable(),
   /** Practice warnings (short test, started too soon after activation); never a reason to refuse. */
-  warnings: z.array(z.object({ code: z.string(), message: z.string() })),
+  warnings: z.array(z.object({ code: z.string(), message: z.string(), source: z.string().optional() })),
+  /** Lab reports attached to this test. */
+  attachments: z.array(AttachmentRef).optional(),
 });
 export type RadonTestDto = z.infer<typeof RadonTestDto>;
+
+// ── Attachments ───────────────────────────────────────────────────────────────────────────────────
+
+/**
+ * Query of PUT /api/homes/:homeId/attachments/:attachmentId. The request body is the file itself
+ * (Content-Type = its type); the id is generated on the device so a retried upload is stored once.
+ */
+export const AttachmentUploadQuery = z
+  .object({
+    kind: z.enum(ATTACHMENT_KINDS),
+    subject: z.enum(PHOTO_SUBJECTS).optional(),
+    visitId: z.string().uuid().optional(),
+    radonTestId: z.string().uuid().optional(),
+    /** The original file name, kept for downloads. */
+    name: z.string().trim().max(255).default(''),
+  })
+  .superRefine((q, ctx) => {
+    if (q.kind !== 'photo' && q.subject !== undefined) ctx.addIssue({ code: 'custom', path: ['subject'], message: 'only photos have a subject' });
+  });
+export type AttachmentUploadQuery = z.infer<typeof AttachmentUploadQuery>;
+
+export const AttachmentDto = z.object({
+  id: z.string().uuid(),
+  kind: z.enum(ATTACHMENT_KINDS),
+  subject: z.enum(PHOTO_SUBJECTS).nullable(),
+  contentType: z.string(),
+  byteSize: z.number().int(),
+});
+export type AttachmentDto = z.infer<typeof AttachmentDto>;

@@ -3,17 +3,21 @@ import type { QueryClient } from '@tanstack/react-query';
 import type { Role } from '@shared/schemas/enums';
 import { sessionQueryOptions } from '@/features/auth/api/get-session';
 import { AppLayout, NAV } from '@/components/layouts/app-layout';
+import { FIELD_ROLES } from '@/features/visits/utils/roles';
 import { RouteError } from './routes/route-error';
 
-/** Signed-out users go to sign-in; a role that may not use a page is sent to the map. */
-function guard(queryClient: QueryClient, path?: string) {
+/**
+ * Signed-out users go to sign-in; a role that may not use a page (its NAV entry's roles, or `allowed`
+ * for pages outside the navigation) is sent to the map.
+ */
+function guard(queryClient: QueryClient, path?: string, allowed?: readonly Role[]) {
   return async ({ request }: LoaderFunctionArgs) => {
     const session = await queryClient.ensureQueryData(sessionQueryOptions());
     if (!session.user) {
       const url = new URL(request.url);
       throw redirect(`/sign-in?next=${encodeURIComponent(url.pathname + url.search)}`);
     }
-    const roles: readonly Role[] | undefined = NAV.find((n) => n.to === path)?.roles;
+    const roles: readonly Role[] | undefined = allowed ?? NAV.find((n) => n.to === path)?.roles;
     if (roles && !roles.includes(session.user.role)) throw redirect('/');
     return null;
   };
@@ -37,6 +41,8 @@ export function makeRouter(queryClient: QueryClient) {
       children: [
         { index: true, lazy: () => import('./routes/map').then((m) => ({ Component: m.MapRoute })) },
         { path: 'homes', loader: guard(queryClient, '/homes'), lazy: () => import('./routes/homes').then((m) => ({ Component: m.HomesRoute })) },
+        { path: 'homes/:homeId/visit', loader: guard(queryClient, undefined, FIELD_ROLES), lazy: () => import('./routes/record-visit').then((m) => ({ Component: m.RecordVisitRoute })) },
+        { path: 'homes/:homeId/test', loader: guard(queryClient, undefined, FIELD_ROLES), lazy: () => import('./routes/record-test').then((m) => ({ Component: m.RecordTestRoute })) },
         { path: 'communities', loader: guard(queryClient, '/communities'), lazy: () => import('./routes/communities').then((m) => ({ Component: m.CommunitiesRoute })) },
         { path: 'builders', loader: guard(queryClient, '/builders'), lazy: () => import('./routes/builders').then((m) => ({ Component: m.BuildersRoute })) },
         { path: 'compare-builders', loader: guard(queryClient, '/compare-builders'), lazy: () => import('./routes/compare-builders').then((m) => ({ Component: m.CompareBuildersRoute })) },

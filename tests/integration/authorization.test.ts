@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { randomUUID } from 'node:crypto';
 import { CONTACT_ROLES, ROLES, type Role } from '../../shared/schemas/enums.js';
 import { ApiClient, startTestApp, type TestApp } from '../setup/test-app.js';
 import { demoUser, otherCompanyUser } from '../setup/demo.js';
@@ -34,6 +35,16 @@ afterAll(() => app.close());
 const ALL: readonly Role[] = ROLES;
 const EDITORS: readonly Role[] = ['admin', 'manager', 'estimator'];
 const ADMIN: readonly Role[] = ['admin'];
+/** Who records field work (visits, radon tests, their files). */
+const FIELD: readonly Role[] = ['technician', 'admin', 'manager'];
+/** The first bytes of a PNG file (PNG specification §5.2). */
+const PNG_SIGNATURE = new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+let fieldHomeId: Promise<string> | undefined;
+/** A home of its own for the field-record routes, away from every community so no statistic moves. */
+const fieldHome = () =>
+  (fieldHomeId ??= admin
+    .post('/api/homes', { number: '70001', street: 'Authorisation Row', city: 'Testville', state: 'ZZ', zip: '00001', lon: 10.3, lat: 10.3 })
+    .then((r) => r.body.home.id as string));
 /** An id no company has. */
 const NOBODY = '00000000-0000-4000-8000-000000000000';
 let seq = 0;
@@ -124,6 +135,47 @@ const cases: RouteCase[] = [
     ok: 404,
     send: (c) => c.post(`/api/home-results/${NOBODY}/email`, { recipientEmail: 'owner@example.test' }),
   },
+  { route: 'GET /api/fans', allowed: ALL, ok: 200, send: (c) => c.get('/api/fans') },
+  { route: 'POST /api/fans', allowed: ADMIN, ok: 201, send: (c) => c.post('/api/fans', { name: unique('Fan'), curve: [{ flowCfm: 0, staticInWc: 1.5 }, { flowCfm: 90, staticInWc: 0 }] }) },
+  {
+    route: 'PUT /api/fans/:id',
+    allowed: ADMIN,
+    ok: 200,
+    send: async (c) => {
+      const fan = (await admin.get('/api/fans')).body.fans[0];
+      return c.request('PUT', `/api/fans/${fan.id}`, { name: fan.name, curve: fan.curve });
+    },
+  },
+  {
+    route: 'POST /api/homes/:homeId/visits',
+    allowed: FIELD,
+    ok: 201,
+    send: async (c) => c.post(`/api/homes/${await fieldHome()}/visits`, { id: randomUUID(), visitedOn: '2026-01-05', status: 'no_access' }),
+  },
+  {
+    route: 'POST /api/homes/:homeId/radon-tests',
+    allowed: FIELD,
+    ok: 201,
+    send: async (c) =>
+      c.post(`/api/homes/${await fieldHome()}/radon-tests`, {
+        id: randomUUID(),
+        kind: 'pre',
+        device: 'charcoal',
+        startedAt: '2026-01-01T12:00:00Z',
+        endedAt: '2026-01-04T12:00:00Z',
+        result: 3.1,
+        unit: 'pCi/L',
+      }),
+  },
+  // No home has this id: a role that may upload gets as far as the home check (no object storage needed).
+  {
+    route: 'PUT /api/homes/:homeId/attachments/:attachmentId',
+    allowed: FIELD,
+    ok: 404,
+    send: (c) => c.upload('PUT', `/api/homes/${NOBODY}/attachments/${randomUUID()}?kind=photo`, PNG_SIGNATURE, 'image/png'),
+  },
+  { route: 'GET /api/attachments/:id', allowed: ALL, ok: 404, send: (c) => c.get(`/api/attachments/${NOBODY}`) },
+  { route: 'GET /api/attachments/:id/thumbnail', allowed: ALL, ok: 404, send: (c) => c.get(`/api/attachments/${NOBODY}/thumbnail`) },
 ];
 
 describe('every API route × every role', () => {

@@ -1,5 +1,6 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { createServer } from 'node:net';
+import { startFakeS3 } from '../../server/fakes/s3.js';
 
 export async function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
@@ -12,8 +13,13 @@ export async function freePort(): Promise<number> {
   });
 }
 
-/** Starts `tsx server/index.ts` as its own process (what `npm start` runs) and waits for /api/health. */
+/**
+ * Starts `tsx server/index.ts` as its own process (what `npm start` runs) and waits for /api/health.
+ * Unless `extraEnv` names an S3_ENDPOINT, the server gets its own object store: a fake S3 in this
+ * process on a free port, with a temporary folder, stopped when the server exits.
+ */
 export async function startServerProcess(port: number, extraEnv: Record<string, string> = {}): Promise<ChildProcess> {
+  const s3 = extraEnv.S3_ENDPOINT ? null : await startFakeS3(0);
   // One process (node with tsx's loader), so a kill really stops the server: the tsx CLI would leave a child behind.
   const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
     env: {
@@ -24,10 +30,12 @@ export async function startServerProcess(port: number, extraEnv: Record<string, 
       NODE_ENV: 'test',
       LOG_LEVEL: 'warn',
       SESSION_SECRET: 'test-session-secret-0123456789',
+      ...(s3 ? { S3_ENDPOINT: s3.url } : {}),
       ...extraEnv,
     },
     stdio: ['ignore', 'ignore', 'inherit'],
   });
+  if (s3) child.once('exit', () => void s3.close());
   const deadline = Date.now() + 30_000;
   while (Date.now() < deadline) {
     if (child.exitCode !== null) throw new Error(`server exited with ${child.exitCode}`);

@@ -3,12 +3,15 @@ import type { Server } from 'node:http';
 import { parseEnv } from '../../server/config/env.js';
 import { createDatabase, type Database } from '../../server/db/client.js';
 import { createApp } from '../../server/app.js';
+import { createObjectStorage, type ObjectStorage } from '../../server/lib/object-storage.js';
 
 export const DEMO_PASSWORD = 'demo-pass-2026';
 
 export interface TestApp {
   url: string;
   database: Database;
+  /** The app's object storage client (reads back what uploads stored). */
+  storage: ObjectStorage;
   close(): Promise<void>;
 }
 
@@ -19,7 +22,10 @@ export interface TestApp {
 export async function startTestApp(overrides: Record<string, string> = {}): Promise<TestApp> {
   const env = parseEnv({ DATABASE_URL: process.env.TEST_DATABASE_URL, NODE_ENV: 'test', LOG_LEVEL: 'error', CLIENT_DIST: '/nonexistent', ...overrides });
   const database = createDatabase(env.DATABASE_URL, 4);
-  const app = createApp({ env, database });
+  const storage = createObjectStorage(env);
+  // With an object store given (e.g. an in-process fake from server/fakes/s3.ts), make its bucket as the server does at start.
+  if (overrides.S3_ENDPOINT) await storage.ensureBucket();
+  const app = createApp({ env, database, storage });
   const server: Server = await new Promise((resolve) => {
     const s = app.listen(0, '127.0.0.1', () => resolve(s));
   });
@@ -27,6 +33,7 @@ export async function startTestApp(overrides: Record<string, string> = {}): Prom
   return {
     url: `http://127.0.0.1:${port}`,
     database,
+    storage,
     close: async () => {
       server.closeAllConnections();
       await new Promise((r) => server.close(r));
@@ -52,6 +59,22 @@ export class ApiClient {
     const text = await res.text();
     const json = text ? JSON.parse(text) : null;
     return { status: res.status, body: json };
+  }
+
+  /** Sends raw bytes (a file upload) with the session cookie and CSRF token; the answer is decoded as JSON. */
+  async upload(method: 'PUT' | 'POST', path: string, bytes: Uint8Array<ArrayBuffer>, contentType: string) {
+    const headers: Record<string, string> = { Accept: 'application/json', 'Content-Type': contentType };
+    if (this.cookie) headers.Cookie = this.cookie;
+    if (this.csrfToken) headers['x-csrf-token'] = this.csrfToken;
+    const res = await fetch(this.baseUrl + path, { method, headers, body: bytes });
+    const text = await res.text();
+    return { status: res.status, body: text ? JSON.parse(text) : null };
+  }
+
+  /** A GET whose answer is kept as bytes (file downloads). */
+  async download(path: string) {
+    const res = await fetch(this.baseUrl + path, { headers: this.cookie ? { Cookie: this.cookie } : {} });
+    return { status: res.status, headers: res.headers, bytes: Buffer.from(await res.arrayBuffer()) };
   }
 
   get = (path: string) => this.request('GET', path);

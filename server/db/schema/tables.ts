@@ -283,13 +283,20 @@ export const attachments = pgTable(
     contentType: text('content_type').notNull(),
     byteSize: integer('byte_size').notNull(),
     storageKey: text('storage_key').notNull(),
+    /** What a photo shows; lab reports have none. */
+    subject: text('subject'),
+    /** The JPEG preview made for photos (at most 320 px), stored beside the original. */
+    thumbnailKey: text('thumbnail_key'),
     originalName: text('original_name').notNull().default(''),
     createdAt: createdAt(),
   },
   (t) => [
     index('attachments_company_home_idx').on(t.companyId, t.homeId),
+    index('attachments_visit_idx').on(t.visitId),
+    index('attachments_radon_test_idx').on(t.radonTestId),
     check('attachments_kind', inList('kind', ['photo', 'lab_report'])),
     check('attachments_size_positive', sql`${t.byteSize} > 0`),
+    check('attachments_subject', sql`subject is null or (kind = 'photo' and ${inList('subject', ['manometer', 'fan', 'suction_point', 'other'])})`),
   ],
 );
 

@@ -14,8 +14,11 @@ export function homeTilesRouter(db: Db): Router {
     const tile = z < HOMES_MIN_ZOOM ? Buffer.alloc(0) : await homesTile(db, user.companyId, z, x, y, req.query as unknown as MapFilter);
     res.set({
       'Content-Type': 'application/x-protobuf',
-      // Private: the tile carries one company's customer data; short so a new visit shows soon.
-      'Cache-Control': 'private, max-age=30',
+      // Private: the tile carries one company's customer data. no-cache: the browser revalidates
+      // every time (Express answers 304 on an unchanged ETag), so a home whose outcome a visit or
+      // test just changed shows on the very next tile request. Tiles are built per request from
+      // the homes rows; nothing is cached on the server.
+      'Cache-Control': 'private, no-cache',
     });
     res.send(tile);
   });

@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, ilike, sql, type SQL } from 'drizzle-orm';
+import { and, asc, eq, ilike, sql, type SQL } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client.js';
 import { builders, communities, homes, radonTests, visits } from '../../db/schema/tables.js';
 
@@ -105,38 +105,39 @@ export async function referenceBelongs(db: DbOrTx, companyId: string, table: 'co
   return Boolean(row);
 }
 
-export function listVisitsForHome(db: DbOrTx, companyId: string, homeId: string) {
-  return db
-    .select({
-      id: visits.id,
-      visitedOn: visits.visitedOn,
-      status: visits.status,
-      vacuumPa: visits.vacuumPa,
-      subSlabMaterial: visits.subSlabMaterial,
-      reworkNeeded: visits.reworkNeeded,
-      reworkDone: visits.reworkDone,
-      reworkReasons: visits.reworkReasons,
-      notes: visits.notes,
-    })
-    .from(visits)
-    .where(and(eq(visits.companyId, companyId), eq(visits.homeId, homeId)))
-    .orderBy(desc(visits.visitedOn));
+/**
+ * Locks the home's row for the rest of the transaction, so writes that change its derived summary
+ * (visits, tests) are applied one after another. False when the company has no such home.
+ */
+export async function lockHome(db: DbOrTx, companyId: string, id: string) {
+  const rows = await db.select({ id: homes.id }).from(homes).where(and(eq(homes.companyId, companyId), eq(homes.id, id))).for('update');
+  return rows.length > 0;
 }
 
-export function listTestsForHome(db: DbOrTx, companyId: string, homeId: string) {
-  return db
-    .select({
-      id: radonTests.id,
-      kind: radonTests.kind,
-      device: radonTests.device,
-      startedAt: radonTests.startedAt,
-      endedAt: radonTests.endedAt,
-      resultBqM3: radonTests.resultBqM3,
-      sideBySideGroup: radonTests.sideBySideGroup,
-    })
+/** What the derived summary of a home is computed from (home-summary.ts). */
+export async function summaryInputs(db: DbOrTx, companyId: string, homeId: string) {
+  // One after the other: inside a transaction both run on the same connection.
+  const visitRows = await db
+    .select({ visitedOn: visits.visitedOn, status: visits.status, reworkNeeded: visits.reworkNeeded, reworkDone: visits.reworkDone, vacuumPa: visits.vacuumPa })
+    .from(visits)
+    .where(and(eq(visits.companyId, companyId), eq(visits.homeId, homeId)));
+  const testRows = await db
+    .select({ kind: radonTests.kind, startedAt: radonTests.startedAt, endedAt: radonTests.endedAt, resultBqM3: radonTests.resultBqM3, sideBySideGroup: radonTests.sideBySideGroup })
     .from(radonTests)
-    .where(and(eq(radonTests.companyId, companyId), eq(radonTests.homeId, homeId)))
-    .orderBy(desc(radonTests.endedAt));
+    .where(and(eq(radonTests.companyId, companyId), eq(radonTests.homeId, homeId)));
+  return { visitRows, testRows };
+}
+
+export async function writeSummary(
+  db: DbOrTx,
+  companyId: string,
+  homeId: string,
+  summary: Pick<typeof homes.$inferInsert, 'outcome' | 'lastVacuumPa' | 'lastPostBqM3' | 'reworkFlag' | 'sampled' | 'failed'>,
+) {
+  await db
+    .update(homes)
+    .set({ ...summary, updatedAt: new Date() })
+    .where(and(eq(homes.companyId, companyId), eq(homes.id, homeId)));
 }
 
 /** True when the home is in its community's latest sampling plan and not yet visited ("sample this home"). */

@@ -1,10 +1,14 @@
 import type { z } from 'zod';
-import type { Db } from '../../db/client.js';
+import type { Db, DbOrTx } from '../../db/client.js';
 import type { HomeBody, HomeDto, HomeListQuery, UpdateHomeBody } from '../../../shared/schemas/homes.js';
 import { CONTACT_ROLES, type Role } from '../../../shared/schemas/enums.js';
 import { addressKey, formatAddress } from '../../../shared/domain/address.js';
 import { AppError, type FieldError } from '../../lib/errors.js';
+import type { OutcomeTest, OutcomeVisit } from '../../../shared/domain/outcome.js';
 import * as repo from './homes.repository.js';
+import { summariseHome } from './home-summary.js';
+import { getSettings } from '../settings/settings.repository.js';
+import { homeRecords } from '../visits/home-records.js';
 
 type Viewer = { companyId: string; role: Role };
 
@@ -33,12 +37,34 @@ export async function getHome(db: Db, viewer: Viewer, id: string) {
 
 export async function getHomeDetail(db: Db, viewer: Viewer, id: string) {
   const home = await getHome(db, viewer, id);
-  const [visits, tests, planned] = await Promise.all([
-    repo.listVisitsForHome(db, viewer.companyId, id),
-    repo.listTestsForHome(db, viewer.companyId, id),
+  const [{ visits, tests }, planned] = await Promise.all([
+    homeRecords(db, viewer.companyId, id),
     repo.isPlannedForSampling(db, viewer.companyId, id),
   ]);
   return { home, visits, tests, planned };
+}
+
+/**
+ * Recomputes a home's derived outcome and summary from all its visits and tests, with the
+ * company's action level, and stores it on the home. Call inside the transaction that changed
+ * them, after repo.lockHome, so the stored summary always matches the records.
+ */
+export async function refreshHomeSummary(tx: DbOrTx, companyId: string, homeId: string) {
+  const { visitRows, testRows } = await repo.summaryInputs(tx, companyId, homeId);
+  const settings = await getSettings(tx, companyId);
+  const summary = summariseHome(
+    visitRows.map((v) => ({ ...v, status: v.status as OutcomeVisit['status'] })),
+    testRows.map((t): OutcomeTest => ({
+      kind: t.kind as OutcomeTest['kind'],
+      startedAt: t.startedAt.toISOString(),
+      endedAt: t.endedAt.toISOString(),
+      resultBqM3: t.resultBqM3,
+      sideBySideGroup: t.sideBySideGroup,
+    })),
+    settings.actionLevelBqM3,
+  );
+  await repo.writeSummary(tx, companyId, homeId, summary);
+  return summary;
 }
 
 async function checkReferences(db: Db, companyId: string, body: { communityId?: string | null; builderId?: string | null }) {

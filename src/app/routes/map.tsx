@@ -1,6 +1,6 @@
 import { useEffect, useMemo, useState } from 'react';
 import { MapProvider, useMap } from 'react-map-gl/maplibre';
-import { useNavigate, useLocation } from 'react-router-dom';
+import { Link, useNavigate, useLocation } from 'react-router-dom';
 import { bbox } from '@turf/turf';
 import type { FeatureCollection } from 'geojson';
 import { MapView, MAP_ID } from '@/features/map/components/map-view';
@@ -14,6 +14,9 @@ import { useBuilders } from '@/features/builders/api/get-builders';
 import { useSettings } from '@/features/settings/api/settings';
 import { PanelBoundary } from '@/components/ui/panel-boundary';
 import { EmptyState } from '@/components/ui/empty-state';
+import { useSession } from '@/features/auth/api/get-session';
+import { FIELD_ROLES } from '@/features/visits/utils/roles';
+import { useOutbox } from '@/lib/outbox';
 import { bqM3ToPciL } from '@shared/domain/units';
 
 export function MapRoute() {
@@ -110,10 +113,40 @@ function MapScreen() {
       {selectedHomeId && (
         <div className="absolute inset-x-0 bottom-0 z-20 max-h-[60%] overflow-auto rounded-t-xl border-t border-rule bg-panel p-4 shadow-lg sm:inset-x-auto sm:bottom-0 sm:right-0 sm:top-0 sm:max-h-none sm:w-96 sm:rounded-none sm:border-l sm:border-t-0">
           <PanelBoundary>
-            <HomePanel homeId={selectedHomeId} radonUnit={radonUnit} actionLevelBqM3={actionLevelBqM3} onClose={() => update({ home: undefined })} />
+            <HomePanel
+              homeId={selectedHomeId}
+              radonUnit={radonUnit}
+              actionLevelBqM3={actionLevelBqM3}
+              onClose={() => update({ home: undefined })}
+              actions={<FieldActions homeId={selectedHomeId} />}
+            />
           </PanelBoundary>
         </div>
       )}
     </div>
+  );
+}
+
+const ACTION_LINK = 'inline-flex min-h-11 items-center rounded-md px-4 font-medium';
+
+/** Recording field work, for the roles that do it, and what of it still waits on this device. */
+function FieldActions({ homeId }: { homeId: string }) {
+  const session = useSession();
+  const outbox = useOutbox();
+  const role = session.data?.user?.role;
+  if (!role || !FIELD_ROLES.includes(role)) return null;
+  const waiting = outbox.pending.filter((i) => i.homeId === homeId);
+  const visits = waiting.filter((i) => i.kind === 'visit').length;
+  const others = waiting.length - visits;
+  return (
+    <>
+      <Link to={`/homes/${homeId}/visit`} className={`${ACTION_LINK} bg-accent text-white hover:bg-accent-dark`}>Record a visit</Link>
+      <Link to={`/homes/${homeId}/test`} className={`${ACTION_LINK} border border-rule bg-panel text-ink hover:border-accent`}>Record a radon test</Link>
+      {waiting.length > 0 && (
+        <p className="w-full text-sm text-muted" data-testid="home-waiting">
+          On this device, waiting to send: {[visits && `${visits} visit${visits > 1 ? 's' : ''}`, others && `${others} other record${others > 1 ? 's' : ''}`].filter(Boolean).join(', ')}.
+        </p>
+      )}
+    </>
   );
 }

@@ -1,8 +1,13 @@
+import { useEffect } from 'react';
 import { NavLink, Outlet, useNavigate } from 'react-router-dom';
+import { useQueryClient } from '@tanstack/react-query';
 import type { Role } from '@shared/schemas/enums';
 import { ROLE_LABELS } from '@shared/schemas/enums';
 import { useSession } from '@/features/auth/api/get-session';
 import { useSignOut } from '@/features/auth/api/sign-out';
+import { onOutboxSent, startOutbox } from '@/lib/outbox';
+import { bumpHomeTilesVersion } from '@/lib/home-tiles-version';
+import { OutboxStatus } from './outbox-status';
 
 /** Navigation named after what people do there; each role sees only what it can use. */
 export const NAV: { to: string; label: string; roles: readonly Role[] }[] = [
@@ -22,6 +27,7 @@ export function AppLayout() {
   const signOut = useSignOut();
   const navigate = useNavigate();
   const user = data?.user;
+  useOutboxSender(user?.id ?? null);
   if (!user) return null;
   const items = NAV.filter((n) => n.roles.includes(user.role));
   return (
@@ -45,6 +51,7 @@ export function AppLayout() {
           ))}
         </nav>
         <div className="ml-auto flex items-center gap-3 text-sm">
+          <OutboxStatus />
           <span className="hidden text-muted sm:inline" data-testid="signed-in-as">
             {user.name} · {ROLE_LABELS[user.role]} · {user.companyName}
           </span>
@@ -61,4 +68,20 @@ export function AppLayout() {
       </main>
     </div>
   );
+}
+
+/**
+ * Sends the signed-in user's waiting records (visits, tests, photos) whenever it can, and refreshes what
+ * they change: the home queries and the map's home tiles.
+ */
+function useOutboxSender(userId: string | null) {
+  const queryClient = useQueryClient();
+  useEffect(() => (userId ? startOutbox(userId) : undefined), [userId]);
+  useEffect(() => {
+    const off = onOutboxSent(() => {
+      void queryClient.invalidateQueries({ queryKey: ['homes'] });
+      bumpHomeTilesVersion();
+    });
+    return () => void off();
+  }, [queryClient]);
 }

@@ -79,14 +79,18 @@ export function useMapState() {
   return { filters, styleMode, selectedHomeId, update };
 }
 
-/** Query string for the homes tile URL: exactly the filters, so the tile cache key follows them. */
-export function tileQuery(filters: MapFilters): string {
+/**
+ * Query string for the homes tile URL: exactly the filters, so the tile cache key follows them, plus
+ * the data version once records were saved during this page's life (new URL → fresh tiles).
+ */
+export function tileQuery(filters: MapFilters, dataVersion = 0): string {
   const q = new URLSearchParams();
   if (filters.builderId) q.set('builderId', filters.builderId);
   if (filters.communityId) q.set('communityId', filters.communityId);
   if (filters.yearFrom !== undefined) q.set('yearFrom', String(filters.yearFrom));
   if (filters.yearTo !== undefined) q.set('yearTo', String(filters.yearTo));
   if (filters.outcome?.length) q.set('outcome', filters.outcome.join(','));
+  if (dataVersion > 0) q.set('v', String(dataVersion));
   const s = q.toString();
   return s ? `?${s}` : '';
 }

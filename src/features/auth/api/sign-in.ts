@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api, setCsrfToken } from '@/lib/api-client';
 import type { SessionResponse } from '@shared/schemas/auth';
-import { sessionQueryOptions } from './get-session';
+import { rememberUser, sessionQueryOptions } from './get-session';
 
 export function useSignIn() {
   const queryClient = useQueryClient();
@@ -9,6 +9,7 @@ export function useSignIn() {
     mutationFn: (body: { email: string; password: string }) => api<SessionResponse>('/api/auth/sign-in', { method: 'POST', body }),
     onSuccess: (session) => {
       setCsrfToken(session.csrfToken);
+      rememberUser(session);
       queryClient.clear();
       queryClient.setQueryData(sessionQueryOptions().queryKey, session);
     },

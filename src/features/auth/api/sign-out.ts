@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api, setCsrfToken } from '@/lib/api-client';
-import { sessionQueryOptions } from './get-session';
+import { forgetSessionUser, sessionQueryOptions } from './get-session';
 
 export function useSignOut() {
   const queryClient = useQueryClient();
@@ -8,6 +8,7 @@ export function useSignOut() {
     mutationFn: () => api<void>('/api/auth/sign-out', { method: 'POST' }),
     onSettled: () => {
       setCsrfToken(null);
+      forgetSessionUser();
       queryClient.clear();
       queryClient.setQueryData(sessionQueryOptions().queryKey, { user: null, csrfToken: null });
     },

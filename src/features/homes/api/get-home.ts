@@ -1,11 +1,12 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
 import type { HomeDto } from '@shared/schemas/homes';
+import type { RadonTestDto, VisitDto } from '@shared/schemas/visits';
 
 export interface HomeDetail {
   home: HomeDto;
-  visits: { id: string; visitedOn: string; status: string; vacuumPa: number | null; subSlabMaterial: string; reworkNeeded: boolean; reworkDone: boolean; reworkReasons: string[]; notes: string }[];
-  tests: { id: string; kind: string; device: string; startedAt: string; endedAt: string; resultBqM3: number; sideBySideGroup: string | null }[];
+  visits: VisitDto[];
+  tests: RadonTestDto[];
   /** In its community's latest sampling plan and not yet visited. */
   planned: boolean;
 }

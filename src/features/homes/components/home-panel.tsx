@@ -7,6 +7,7 @@ import { formatRadon, paToInWc, type RadonDisplayUnit } from '@shared/domain/uni
 const PASSIVE_LABEL = { yes: 'Passive system present', no: 'No passive system', unknown: 'Passive system unknown' } as const;
 const FOUNDATION_LABEL = { slab: 'Slab-on-grade', basement: 'Basement', crawlspace: 'Crawlspace', mixed: 'Mixed foundation' } as const;
 const SUB_SLAB_LABEL: Record<string, string> = { clean_gravel: 'clean gravel', mixed: 'mixed fill', none: 'no gravel', unknown: 'sub-slab not seen' };
+const PHOTO_SUBJECT_LABEL: Record<string, string> = { manometer: 'manometer', fan: 'fan', suction_point: 'suction point' };
 const REWORK_LABEL: Record<string, string> = {
   added_suction_point: 'added suction point',
   sealed_opening: 'sealed opening',
@@ -89,6 +90,24 @@ export function HomePanel({
                     </p>
                   )}
                   {v.notes && <p className="text-muted">{v.notes}</p>}
+                  {(v.attachments ?? []).some((a) => a.kind === 'photo') && (
+                    <ul className="mt-1 flex flex-wrap gap-1.5" aria-label="Photos">
+                      {(v.attachments ?? [])
+                        .filter((a) => a.kind === 'photo')
+                        .map((a) => (
+                          <li key={a.id}>
+                            <a href={`/api/attachments/${a.id}`} target="_blank" rel="noreferrer">
+                              <img
+                                src={`/api/attachments/${a.id}/thumbnail`}
+                                alt={PHOTO_SUBJECT_LABEL[a.subject ?? ''] ? `Photo of the ${PHOTO_SUBJECT_LABEL[a.subject ?? '']}` : 'Visit photo'}
+                                loading="lazy"
+                                className="h-14 w-14 rounded border border-rule object-cover"
+                              />
+                            </a>
+                          </li>
+                        ))}
+                    </ul>
+                  )}
                 </li>
               ))}
             </ul>
@@ -100,7 +119,12 @@ export function HomePanel({
               {data.tests.map((t) => (
                 <li key={t.id} className="flex justify-between gap-2">
                   <span>{t.kind === 'pre' ? 'Pre-mitigation' : 'Post-mitigation'} · {t.endedAt.slice(0, 10)}</span>
-                  <span className={t.resultBqM3 >= actionLevelBqM3 ? 'font-semibold text-state-bad' : ''}>{formatRadon(t.resultBqM3, radonUnit)}</span>
+                  <span className="flex gap-2">
+                    {t.attachments?.filter((a) => a.kind === 'lab_report').map((a) => (
+                      <a key={a.id} href={`/api/attachments/${a.id}`} target="_blank" rel="noreferrer" className="text-accent underline">Lab report</a>
+                    ))}
+                    <span className={t.resultBqM3 >= actionLevelBqM3 ? 'font-semibold text-state-bad' : ''}>{formatRadon(t.resultBqM3, radonUnit)}</span>
+                  </span>
                 </li>
               ))}
             </ul>

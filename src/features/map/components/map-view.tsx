@@ -20,6 +20,7 @@ import {
 } from '../layers/home-layers';
 import { renderOutcomeIcons, ICON_PIXEL_RATIO } from '../utils/outcome-icons';
 import { loadCamera, saveCamera, tileQuery, type MapFilters } from '../use-map-state';
+import { useHomeTilesVersion } from '@/lib/home-tiles-version';
 
 // maplibre-gl 6 needs its worker URL set explicitly in a production build (STACK.md).
 setWorkerUrl(workerUrl);
@@ -42,7 +43,9 @@ export interface MapViewProps {
 export function MapView({ filters, styleMode, actionLevelPciL, selectedHomeId, communities, initialCenter, onSelectHome }: MapViewProps) {
   const mapRef = useRef<MapRef>(null);
   const initialView = useMemo(() => loadCamera() ?? { longitude: initialCenter[0], latitude: initialCenter[1], zoom: 14 }, [initialCenter]);
-  const tiles = useMemo(() => [`${window.location.origin}/tiles/homes/{z}/{x}/{y}.pbf${tileQuery(filters)}`], [filters]);
+  // The version goes up when visits or tests reach the server, so outcome symbols change without a reload.
+  const tilesVersion = useHomeTilesVersion();
+  const tiles = useMemo(() => [`${window.location.origin}/tiles/homes/{z}/{x}/{y}.pbf${tileQuery(filters, tilesVersion)}`], [filters, tilesVersion]);
 
   const onLoad = useCallback(() => {
     const map = mapRef.current?.getMap();

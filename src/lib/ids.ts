@@ -1,0 +1,13 @@
+/**
+ * A random (version 4) UUID made on the device. `crypto.randomUUID` exists only in secure contexts
+ * (HTTPS or localhost); a company running the app over plain HTTP on its own network still needs ids,
+ * so fall back to `getRandomValues`, which every context has (RFC 9562 §5.4 layout).
+ */
+export function newId(): string {
+  if (typeof crypto.randomUUID === 'function') return crypto.randomUUID();
+  const b = crypto.getRandomValues(new Uint8Array(16));
+  b[6] = (b[6] & 0x0f) | 0x40;
+  b[8] = (b[8] & 0x3f) | 0x80;
+  const hex = Array.from(b, (x) => x.toString(16).padStart(2, '0')).join('');
+  return `${hex.slice(0, 8)}-${hex.slice(8, 12)}-${hex.slice(12, 16)}-${hex.slice(16, 20)}-${hex.slice(20)}`;
+}

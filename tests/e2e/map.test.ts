@@ -72,6 +72,24 @@ describe('the map', () => {
     await context.close();
   });
 
+  it('draws the homes after the user left the map before it finished loading', async () => {
+    const context = await browserHandle.browser.newContext({ viewport: { width: 1280, height: 800 } });
+    const page = await context.newPage();
+    await signInAs(page, baseUrl, 'technician');
+    // Leave at once: the map keeps loading off-screen and is reused when the user comes back.
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Homes' }).click();
+    await page.getByRole('table').waitFor();
+    await page.waitForTimeout(3000);
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Map' }).click();
+    await waitForMapIdle(page, 'map-reused');
+    const drawn = await page.evaluate(() => {
+      const map = (window as unknown as { __tractwiseMap: { queryRenderedFeatures(o: { layers: string[] }): unknown[] } }).__tractwiseMap;
+      return map.queryRenderedFeatures({ layers: ['homes-outcome'] }).length;
+    });
+    expect(drawn).toBeGreaterThan(0);
+    await context.close();
+  });
+
   it('keeps filters in the URL and restores camera and filters after a reload', async () => {
     const context = await browserHandle.browser.newContext({ viewport: { width: 390, height: 844 } });
     const page = await context.newPage();

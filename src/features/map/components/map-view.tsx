@@ -40,6 +40,14 @@ export interface MapViewProps {
   onSelectHome(id: string | null): void;
 }
 
+function prepareMap(map: ReturnType<MapRef['getMap']>) {
+  for (const { name, image } of renderOutcomeIcons()) {
+    if (!map.hasImage(name)) map.addImage(name, image, { pixelRatio: ICON_PIXEL_RATIO });
+  }
+  // A handle for browser tests and support sessions to inspect what the map drew.
+  (window as unknown as { __tractwiseMap?: unknown }).__tractwiseMap = map;
+}
+
 export function MapView({ filters, styleMode, actionLevelPciL, selectedHomeId, communities, initialCenter, onSelectHome }: MapViewProps) {
   const mapRef = useRef<MapRef>(null);
   const initialView = useMemo(() => loadCamera() ?? { longitude: initialCenter[0], latitude: initialCenter[1], zoom: 14 }, [initialCenter]);
@@ -47,15 +55,9 @@ export function MapView({ filters, styleMode, actionLevelPciL, selectedHomeId, c
   const tilesVersion = useHomeTilesVersion();
   const tiles = useMemo(() => [`${window.location.origin}/tiles/homes/{z}/{x}/{y}.pbf${tileQuery(filters, tilesVersion)}`], [filters, tilesVersion]);
 
-  const onLoad = useCallback(() => {
-    const map = mapRef.current?.getMap();
-    if (!map) return;
-    for (const { name, image } of renderOutcomeIcons()) {
-      if (!map.hasImage(name)) map.addImage(name, image, { pixelRatio: ICON_PIXEL_RATIO });
-    }
-    // A handle for browser tests and support sessions to inspect what the map drew.
-    (window as unknown as { __tractwiseMap?: unknown }).__tractwiseMap = map;
-  }, []);
+  // With reuseMaps, react-map-gl fires 'load' again for a reused map before the ref is attached:
+  // take the map from the event, never from the ref.
+  const onLoad = useCallback((e: { target: Parameters<typeof prepareMap>[0] }) => prepareMap(e.target), []);
 
   const onClick = useCallback(
     (e: MapLayerMouseEvent) => {

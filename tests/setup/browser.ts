@@ -42,9 +42,11 @@ export async function signInAs(page: Page, baseUrl: string, role: DemoRole) {
 /** Waits until MapLibre has loaded its style and drawn every tile in view; on timeout, says why and keeps a screenshot. */
 export async function waitForMapIdle(page: Page, name = 'map') {
   try {
+    // The homes source must be on the map too: React adds it after the style loads (and again when a
+    // reused map comes back), and until then "all tiles loaded" is true of the basemap alone.
     await page.waitForFunction(() => {
-      const map = (window as unknown as { __tractwiseMap?: { loaded(): boolean; areTilesLoaded(): boolean; isMoving(): boolean } }).__tractwiseMap;
-      return Boolean(map && map.loaded() && map.areTilesLoaded() && !map.isMoving());
+      const map = (window as unknown as { __tractwiseMap?: { loaded(): boolean; areTilesLoaded(): boolean; isMoving(): boolean; getSource(id: string): unknown; isSourceLoaded(id: string): boolean } }).__tractwiseMap;
+      return Boolean(map && map.loaded() && map.getSource('homes') && map.isSourceLoaded('homes') && map.areTilesLoaded() && !map.isMoving());
     }, undefined, { timeout: 30_000, polling: 200 });
   } catch (err) {
     const state = await page.evaluate(() => {

@@ -13,7 +13,9 @@ export interface Database {
 }
 
 export function createDatabase(url: string, max = 10): Database {
-  const pool = new pg.Pool({ connectionString: url, max });
+  // jit=off: PostgreSQL's JIT compiles any query its planner guesses to be costly, which for the app's
+  // short requests (a homes tile: about 3,000 rows) adds 30-40 ms of compiling to a 100 ms query.
+  const pool = new pg.Pool({ connectionString: url, max, options: '-c jit=off' });
   const db = drizzle(pool, { schema: tables, casing: 'snake_case' });
   return { pool, db, close: () => pool.end() };
 }

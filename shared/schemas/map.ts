@@ -32,3 +32,9 @@ export const TileParams = z
 
 /** Homes are drawn from this zoom up; below it the tile is empty (community outlines carry the view). */
 export const HOMES_MIN_ZOOM = 11;
+
+/**
+ * From this zoom up each home is its own feature, with its id, so a tap opens it. Below it homes are
+ * drawn as one feature per small cell (property `homes` = how many), and a tap zooms in.
+ */
+export const HOMES_DETAIL_MIN_ZOOM = 14;

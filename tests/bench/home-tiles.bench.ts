@@ -26,7 +26,10 @@ await database.pool.query('analyze homes');
 const { rows: [{ n }] } = await database.pool.query('select count(*)::int as n from homes');
 process.stdout.write(`inserted ${HOMES} synthetic homes in ${Date.now() - started} ms (${n} homes in all)\n`);
 const { rows: [admin] } = await database.pool.query(`select email from users where company_id = $1 and role = 'admin'`, [company.id]);
-await database.close();
+/** Touches one of the company's homes, as a visit would: the homes version goes up and every cached tile is stale. */
+async function pgBump() {
+  await database.pool.query(`update homes set rework_flag = rework_flag where id = (select id from homes where company_id = $1 limit 1)`, [company.id]);
+}
 
 const port = await freePort();
 const server = await startServerProcess(port, { DATABASE_URL: process.env.BENCH_DATABASE_URL!, LOG_LEVEL: 'error', NODE_ENV: 'production' });
@@ -55,14 +58,23 @@ try {
     const span = Math.max(1, Math.round((0.14 * 2 ** z) / 360 / 2));
     const tiles: { x: number; y: number }[] = [];
     for (let dx = -span; dx <= span; dx++) for (let dy = -span; dy <= span; dy++) tiles.push({ x: centre.x + dx, y: centre.y + dy });
-    const samples: number[] = [];
+    // Cold: each tile's first request after the data changed (the server builds it with PostGIS).
+    // Warm: requests for tiles already built at this data version (served from the tile cache).
+    await pgBump(); // a data change, as a visit or an import makes: every cached tile is now stale
+    for (let i = 0; i < 5; i++) await time(`${base}/tiles/homes/${z}/0/0.pbf?w=${i}`, { Cookie: cookie }); // connection and plan warm-up, outside the town
+    const cold: number[] = [];
     const sizes: number[] = [];
-    for (let i = 0; i < 20; i++) await time(`${base}/tiles/homes/${z}/${tiles[i % tiles.length].x}/${tiles[i % tiles.length].y}.pbf`, { Cookie: cookie });
-    for (let i = 0; i < REQUESTS_PER_ZOOM; i++) {
-      const t = tiles[(i * 7919) % tiles.length];
-      const r = await time(`${base}/tiles/homes/${z}/${t.x}/${t.y}.pbf?v=${i}`, { Cookie: cookie });
-      samples.push(r.ms);
+    const order = tiles.map((_, i) => tiles[(i * 7919) % tiles.length]);
+    for (const t of order.slice(0, REQUESTS_PER_ZOOM)) {
+      const r = await time(`${base}/tiles/homes/${z}/${t.x}/${t.y}.pbf`, { Cookie: cookie });
+      cold.push(r.ms);
       sizes.push(r.bytes);
+    }
+    const warm: number[] = [];
+    const built = Math.min(tiles.length, REQUESTS_PER_ZOOM);
+    for (let i = 0; i < REQUESTS_PER_ZOOM; i++) {
+      const t = order[(i * 31) % built];
+      warm.push((await time(`${base}/tiles/homes/${z}/${t.x}/${t.y}.pbf?v=${i}`, { Cookie: cookie })).ms);
     }
     const meanBytes = Math.round(sizes.reduce((a, b) => a + b, 0) / sizes.length);
     // A static file of the mean tile size, served by the same process (express.static) in the same run.
@@ -73,22 +85,26 @@ try {
     for (let i = 0; i < 20; i++) await time(`${base}/${staticName}`);
     for (let i = 0; i < REQUESTS_PER_ZOOM; i++) staticSamples.push((await time(`${base}/${staticName}?v=${i}`)).ms);
     fs.rmSync(staticPath);
-    const tile = summarise(samples);
     const stat = summarise(staticSamples);
-    rows.push({
-      zoom: z,
-      tiles: tiles.length,
-      'mean tile bytes': meanBytes,
-      'tile p50 ms': fmt(tile.p50),
-      'tile p95 ms': fmt(tile.p95),
-      'static p50 ms': fmt(stat.p50),
-      'static p95 ms': fmt(stat.p95),
-      'p95 ratio': fmt(tile.p95 / stat.p95),
-      'target p95 < 30 ms': tile.p95 < 30 ? 'met' : 'MISSED',
-      'target ≤ 3× static': tile.p95 <= 3 * stat.p95 ? 'met' : 'MISSED',
-    });
+    for (const [kind, samples] of [['cold (built)', cold], ['warm (cached)', warm]] as const) {
+      const tile = summarise(samples);
+      rows.push({
+        zoom: z,
+        requests: `${samples.length} ${kind}`,
+        tiles: tiles.length,
+        'mean tile bytes': meanBytes,
+        'tile p50 ms': fmt(tile.p50),
+        'tile p95 ms': fmt(tile.p95),
+        'static p50 ms': fmt(stat.p50),
+        'static p95 ms': fmt(stat.p95),
+        'p95 ratio': fmt(tile.p95 / stat.p95),
+        'target p95 < 30 ms': tile.p95 < 30 ? 'met' : 'MISSED',
+        'target ≤ 3× static': tile.p95 <= 3 * stat.p95 ? 'met' : 'MISSED',
+      });
+    }
   }
   printTable(`House tiles, ${HOMES.toLocaleString('en')} synthetic homes + demo, ${REQUESTS_PER_ZOOM} sequential requests per zoom`, rows);
 } finally {
   await stopServerProcess(server);
+  await database.close();
 }

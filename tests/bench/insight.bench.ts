@@ -90,6 +90,7 @@ async function time(label: string, fn: () => Promise<unknown>) {
     size = Array.isArray(result) ? result.length : (result as { rows: unknown[] }).rows.length;
   }
   const s = summarise(samples);
+  process.stdout.write(`${label}: p50 ${fmt(s.p50)} ms, p95 ${fmt(s.p95)} ms\n`);
   return { step: label, rows: size, runs: s.n, 'p50 ms': fmt(s.p50), 'p95 ms': fmt(s.p95), 'max ms': fmt(s.max), 'target p95 < 250 ms': s.p95 < 250 ? 'met' : 'MISSED' };
 }
 
@@ -139,7 +140,7 @@ const whatIf = `
   reasons as (
     select builder_id, community_id, year_built, reason, count(*)::int as n
     from homes, unnest(bench_rework_reasons) reason
-    where company_id = $1 and builder_id is not null and cardinality(bench_rework_reasons) > 0 group by 1, 2, 3, 4)
+    where company_id = $1 and builder_id is not null and cardinality(bench_rework_reasons) > 0 group by 1, 2, 3, 4),
   ranked as (select *, row_number() over (partition by builder_id, community_id, year_built order by n desc, reason) as rank from reasons),
   top as (select builder_id, community_id, year_built, json_agg(reason order by rank) as top from ranked where rank <= 3 group by 1, 2, 3)
   select c.*, t.top from cells c

@@ -3,10 +3,11 @@ import { ApiClient, startTestApp, type TestApp } from '../setup/test-app.js';
 import { demoUser, otherCompanyUser } from '../setup/demo.js';
 import { decodeTile, tileFor } from '../setup/tiles.js';
 import { OUTCOMES } from '../../shared/schemas/enums.js';
+import { HOMES_DETAIL_MIN_ZOOM } from '../../shared/schemas/map.js';
 
 let app: TestApp;
 let tech: ApiClient;
-let home: { id: string; lon: number; lat: number };
+let home: { id: string; lon: number; lat: number; yearBuilt: number | null };
 
 beforeAll(async () => {
   app = await startTestApp();
@@ -71,11 +72,47 @@ describe('homes vector tiles', () => {
   });
 
   it('filters by outcome exactly as a direct SQL count does', async () => {
-    const { z, x, y } = tileFor(home.lon, home.lat, 13);
+    const { z, x, y } = tileFor(home.lon, home.lat, 15);
     const res = await fetchTile(tech, `/tiles/homes/${z}/${x}/${y}.pbf?outcome=not_visited`);
     const layer = decodeTile(res.body).layers.homes;
     await expectSameHomes(layer, z, x, y, "and h.outcome = 'not_visited'");
     for (let i = 0; i < layer.length; i++) expect(layer.feature(i).properties.outcome).toBe('not_visited');
+  });
+
+  it('below the detail zoom, draws one mark per 8-px cell whose home counts add up to the homes in the tile', async () => {
+    const { z, x, y } = tileFor(home.lon, home.lat, HOMES_DETAIL_MIN_ZOOM - 1);
+    const layer = decodeTile((await fetchTile(tech, `/tiles/homes/${z}/${x}/${y}.pbf`)).body).layers.homes;
+    let inside = 0;
+    const cells = new Set<string>();
+    for (let i = 0; i < layer.length; i++) {
+      const f = layer.feature(i);
+      const [p] = f.loadGeometry()[0];
+      expect(f.properties.id).toBeUndefined();
+      expect(OUTCOMES).toContain(f.properties.outcome);
+      expect(Number(f.properties.homes)).toBeGreaterThan(0);
+      cells.add(`${p.x},${p.y}`);
+      if (p.x >= 0 && p.x < layer.extent && p.y >= 0 && p.y < layer.extent) inside += Number(f.properties.homes);
+    }
+    expect(cells.size).toBe(layer.length); // one mark per cell
+    // Quantising moves a point by under one grid unit; the cells line up with the tile edges.
+    expect(inside).toBeGreaterThanOrEqual(await sqlCount(demoUser('technician'), z, x, y, '', -1));
+    expect(inside).toBeLessThanOrEqual(await sqlCount(demoUser('technician'), z, x, y, '', 1));
+    expect(layer.length).toBeLessThan(inside); // the demo town has cells with several homes
+  });
+
+  it('shows a change to a home on the next request (the tile cache keys on the homes version)', async () => {
+    const { z, x, y } = tileFor(home.lon, home.lat, 15);
+    const before = decodeTile((await fetchTile(tech, `/tiles/homes/${z}/${x}/${y}.pbf`)).body).layers.homes;
+    const idsBefore = Array.from({ length: before.length }, (_, i) => before.feature(i).properties.id);
+    expect(idsBefore).toContain(home.id);
+    await app.database.pool.query(`update homes set year_built = 1901 where id = $1`, [home.id]);
+    try {
+      const after = decodeTile((await fetchTile(tech, `/tiles/homes/${z}/${x}/${y}.pbf`)).body).layers.homes;
+      const f = Array.from({ length: after.length }, (_, i) => after.feature(i)).find((g) => g.properties.id === home.id)!;
+      expect(f.properties.year).toBe(1901);
+    } finally {
+      await app.database.pool.query(`update homes set year_built = $2 where id = $1`, [home.id, home.yearBuilt ?? null]);
+    }
   });
 
   it('answers an empty, valid tile outside the town', async () => {

@@ -1,5 +1,6 @@
 import { sql } from 'drizzle-orm';
 import {
+  bigint,
   boolean,
   check,
   date,
@@ -36,6 +37,11 @@ export const companies = pgTable(
     reworkPriceCents: integer('rework_price_cents').notNull().default(65000),
     quoteConfidence: doublePrecision('quote_confidence').notNull().default(0.9),
     pfeTargetPa: doublePrecision('pfe_target_pa').notNull().default(1),
+    /**
+     * Goes up, by trigger, with every statement that changes the company's homes or sampling plans:
+     * the homes-tile cache keys on it, so no write path can forget to invalidate the map.
+     */
+    homesVersion: bigint('homes_version', { mode: 'number' }).notNull().default(0),
     createdAt: createdAt(),
   },
   (t) => [

@@ -1,23 +1,24 @@
 import { Router } from 'express';
 import type { Db } from '../../db/client.js';
-import { HOMES_MIN_ZOOM, MapFilter, TileParams } from '../../../shared/schemas/map.js';
+import { MapFilter, TileParams } from '../../../shared/schemas/map.js';
 import { currentUser } from '../../middleware/auth.js';
 import { validate } from '../../middleware/validate.js';
-import { homesTile } from './home-tiles.repository.js';
+import { createHomeTiles } from './home-tiles.service.js';
 
 /** GET /tiles/homes/:z/:x/:y.pbf — the signed-in company's homes as a vector tile, filtered like the map. */
 export function homeTilesRouter(db: Db): Router {
   const router = Router();
+  const homeTiles = createHomeTiles(db);
   router.get('/:z/:x/:y.pbf', validate({ params: TileParams, query: MapFilter }), async (req, res) => {
     const user = currentUser(req);
     const { z, x, y } = req.params as unknown as { z: number; x: number; y: number };
-    const tile = z < HOMES_MIN_ZOOM ? Buffer.alloc(0) : await homesTile(db, user.companyId, z, x, y, req.query as unknown as MapFilter);
+    const tile = await homeTiles.tile(user.companyId, z, x, y, req.query as unknown as MapFilter);
     res.set({
       'Content-Type': 'application/x-protobuf',
       // Private: the tile carries one company's customer data. no-cache: the browser revalidates
       // every time (Express answers 304 on an unchanged ETag), so a home whose outcome a visit or
-      // test just changed shows on the very next tile request. Tiles are built per request from
-      // the homes rows; nothing is cached on the server.
+      // test just changed shows on the very next tile request. The server-side cache is keyed on
+      // the company's homes version (see home-tiles.service.ts), so it is never stale either.
       'Cache-Control': 'private, no-cache',
     });
     res.send(tile);

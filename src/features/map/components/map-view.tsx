@@ -21,6 +21,7 @@ import {
 import { renderOutcomeIcons, ICON_PIXEL_RATIO } from '../utils/outcome-icons';
 import { loadCamera, saveCamera, tileQuery, type MapFilters } from '../use-map-state';
 import { useHomeTilesVersion } from '@/lib/home-tiles-version';
+import { HOMES_DETAIL_MIN_ZOOM } from '@shared/schemas/map';
 
 // maplibre-gl 6 needs its worker URL set explicitly in a production build (STACK.md).
 setWorkerUrl(workerUrl);
@@ -62,7 +63,13 @@ export function MapView({ filters, styleMode, actionLevelPciL, selectedHomeId, c
   const onClick = useCallback(
     (e: MapLayerMouseEvent) => {
       const feature = e.features?.[0];
-      onSelectHome(feature ? String(feature.properties?.id) : null);
+      const id = feature?.properties?.id;
+      if (feature && id == null) {
+        // An overview mark (several homes in a few pixels, below HOMES_DETAIL_MIN_ZOOM): zoom in to them.
+        e.target.easeTo({ center: e.lngLat, zoom: Math.max(HOMES_DETAIL_MIN_ZOOM + 1, e.target.getZoom() + 2) });
+        return;
+      }
+      onSelectHome(feature ? String(id) : null);
     },
     [onSelectHome],
   );

@@ -1,0 +1,1 @@
+ALTER TABLE "companies" ADD COLUMN "homes_version" bigint DEFAULT 0 NOT NULL;

@@ -1,0 +1,36 @@
+import { LRUCache } from 'lru-cache';
+import type { Db } from '../../db/client.js';
+import { HOMES_MIN_ZOOM, type MapFilter } from '../../../shared/schemas/map.js';
+import * as repo from './home-tiles.repository.js';
+
+/**
+ * Homes tiles, cached in memory per company, filter and tile. The key includes the company's homes
+ * version, which a database trigger bumps with every change to its homes or sampling plans, so a tile
+ * is never served stale: the next request after a visit, an import or an edit builds it anew.
+ */
+export function createHomeTiles(db: Db, options: { maxBytes?: number } = {}) {
+  const cache = new LRUCache<string, Buffer>({
+    maxSize: options.maxBytes ?? 64 * 1024 * 1024,
+    sizeCalculation: (tile) => Math.max(1, tile.length),
+  });
+  let hits = 0;
+  let misses = 0;
+
+  async function tile(companyId: string, z: number, x: number, y: number, filter: MapFilter): Promise<Buffer> {
+    if (z < HOMES_MIN_ZOOM) return Buffer.alloc(0);
+    const version = await repo.homesVersion(db, companyId);
+    const key = [companyId, version, z, x, y, filter.builderId ?? '', filter.communityId ?? '', filter.yearFrom ?? '', filter.yearTo ?? '', (filter.outcome ?? []).join(',')].join('|');
+    const cached = cache.get(key);
+    if (cached) {
+      hits++;
+      return cached;
+    }
+    misses++;
+    const built = await repo.homesTile(db, companyId, z, x, y, filter);
+    cache.set(key, built);
+    return built;
+  }
+
+  return { tile, stats: () => ({ hits, misses, entries: cache.size, bytes: cache.calculatedSize }) };
+}
+export type HomeTiles = ReturnType<typeof createHomeTiles>;

@@ -15,8 +15,8 @@ export const PRESSURE_UNITS = ['Pa', 'in_wc'] as const;
 // ── Fans ──────────────────────────────────────────────────────────────────────────────────────────
 
 export const FanCurvePointSchema = z.object({
-  flowCfm: z.number().min(0, 'must be 0 or more').max(2000),
-  staticInWc: z.number().min(0, 'must be 0 or more').max(10),
+  flowCfm: z.number().min(0, 'must be 0 or more').max(2000, 'must be 2,000 CFM or less'),
+  staticInWc: z.number().min(0, 'must be 0 or more').max(10, 'must be 10 in. WC or less'),
 });
 
 /** The maker's curve as points; static pressure must not rise with flow. */

@@ -82,11 +82,11 @@ describe('the map', () => {
     await page.waitForTimeout(3000);
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Map' }).click();
     await waitForMapIdle(page, 'map-reused');
-    const drawn = await page.evaluate(() => {
+    // Symbols are placed over a few frames after the tiles arrive: wait for them, up to 15 s.
+    await page.waitForFunction(() => {
       const map = (window as unknown as { __tractwiseMap: { queryRenderedFeatures(o: { layers: string[] }): unknown[] } }).__tractwiseMap;
-      return map.queryRenderedFeatures({ layers: ['homes-outcome'] }).length;
-    });
-    expect(drawn).toBeGreaterThan(0);
+      return map.queryRenderedFeatures({ layers: ['homes-outcome'] }).length > 0;
+    }, undefined, { timeout: 15_000, polling: 250 });
     await context.close();
   });
 

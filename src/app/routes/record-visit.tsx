@@ -1,6 +1,7 @@
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useHome } from '@/features/homes/api/get-home';
 import { useSettings } from '@/features/settings/api/settings';
+import { useFans } from '@/features/fans/api/get-fans';
 import { VisitForm } from '@/features/visits/components/visit-form';
 import { PanelBoundary } from '@/components/ui/panel-boundary';
 
@@ -10,6 +11,7 @@ export function RecordVisitRoute() {
   const navigate = useNavigate();
   const home = useHome(homeId);
   const settings = useSettings();
+  const fans = useFans();
   const back = () => navigate(`/?home=${homeId}`);
   // Without a connection the home cannot load: open the form at once rather than wait for retries.
   const offline = typeof navigator !== 'undefined' && navigator.onLine === false;
@@ -30,7 +32,10 @@ export function RecordVisitRoute() {
               ? 'No connection: the visit is kept on this device and sent later.'
               : 'Home details could not be loaded; the visit can still be recorded.'}
       </p>
-      {waitingForHome ? null : (
+      {waitingForHome ? null : fans.isPending ? (
+        // The device's copy of the fan list shows at once; without one, wait for the server's.
+        <p className="text-muted">Loading the fan list…</p>
+      ) : (
         <PanelBoundary>
           <VisitForm
             homeId={homeId}
@@ -40,6 +45,8 @@ export function RecordVisitRoute() {
             aboveActionLevel={aboveActionLevel}
             onSaved={back}
             onCancel={back}
+            fans={fans.data?.fans ?? []}
+            fansError={fans.data ? null : fans.error}
           />
         </PanelBoundary>
       )}

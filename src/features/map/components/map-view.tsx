@@ -41,9 +41,21 @@ export interface MapViewProps {
   onSelectHome(id: string | null): void;
 }
 
-function prepareMap(map: ReturnType<MapRef['getMap']>) {
+type MaplibreMap = ReturnType<MapRef['getMap']>;
+const prepared = new WeakSet<MaplibreMap>();
+
+function addOutcomeIcons(map: MaplibreMap) {
   for (const { name, image } of renderOutcomeIcons()) {
     if (!map.hasImage(name)) map.addImage(name, image, { pixelRatio: ICON_PIXEL_RATIO });
+  }
+}
+
+function prepareMap(map: MaplibreMap) {
+  addOutcomeIcons(map);
+  if (!prepared.has(map)) {
+    prepared.add(map);
+    // Images belong to the style: if the style is ever loaded again, put the icons back when asked.
+    map.on('styleimagemissing', () => addOutcomeIcons(map));
   }
   // A handle for browser tests and support sessions to inspect what the map drew.
   (window as unknown as { __tractwiseMap?: unknown }).__tractwiseMap = map;

@@ -7,7 +7,6 @@ import { Button } from '@/components/ui/button';
 import { ChoiceGroup } from '@/components/ui/choice-group';
 import { ErrorNote } from '@/components/ui/error-note';
 import { newId } from '@/lib/ids';
-import { useFans } from '../api/get-fans';
 import { useQueueVisit } from '../api/save-visit';
 import { computeDiagnostics } from '../utils/diagnostics';
 import { draftToBody, holesInPa, newDraft, parseDecimal, type FieldErrors, type HoleDraft, type PressureUnit, type ReworkReason, type VisitDraft } from '../utils/visit-draft';
@@ -54,13 +53,10 @@ export interface VisitFormProps {
   aboveActionLevel: boolean;
   onSaved(visitId: string): void;
   onCancel(): void;
-}
-
-/** Waits for the fan list (the device's copy shows at once), then opens the form with its defaults. */
-export function VisitForm(props: VisitFormProps) {
-  const fans = useFans();
-  if (fans.isPending) return <p className="text-muted">Loading the fan list…</p>;
-  return <VisitFormLoaded {...props} fans={fans.data?.fans ?? []} fansError={fans.data ? null : fans.error} />;
+  /** The company's fans (the device's copy when offline); the route waits for the list before opening the form. */
+  fans: FanDto[];
+  /** Why the fan list could not be loaded, when there is no copy to show. */
+  fansError: unknown;
 }
 
 function rememberedFan(fans: FanDto[]): string {
@@ -72,7 +68,7 @@ function rememberedFan(fans: FanDto[]): string {
   }
 }
 
-function VisitFormLoaded({ homeId, homeLabel, pipeSizeIn, pfeTargetPa, aboveActionLevel, onSaved, onCancel, fans, fansError }: VisitFormProps & { fans: FanDto[]; fansError: unknown }) {
+export function VisitForm({ homeId, homeLabel, pipeSizeIn, pfeTargetPa, aboveActionLevel, onSaved, onCancel, fans, fansError }: VisitFormProps) {
   // The id is made once, on the device: saving twice or a retry after a lost answer stores one visit.
   const [visitId] = useState(newId);
   const [draft, setDraft] = useState<VisitDraft>(() => newDraft({ now: new Date(), pipeSizeIn, fanId: rememberedFan(fans) }));

@@ -1,25 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { ChildProcess } from 'node:child_process';
+import { describe, expect, it } from 'vitest';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import type { FanDto } from '../../shared/schemas/visits.js';
-import { freePort, startServerProcess, stopServerProcess } from '../setup/server-process.js';
-import { ARTIFACTS, launchBrowser, signInAs } from '../setup/browser.js';
+import { useAppInBrowser } from '../setup/e2e.js';
+import { ARTIFACTS, signInAs } from '../setup/browser.js';
 
-let server: ChildProcess;
-let baseUrl: string;
-let browserHandle: Awaited<ReturnType<typeof launchBrowser>>;
-
-beforeAll(async () => {
-  const port = await freePort();
-  server = await startServerProcess(port);
-  baseUrl = `http://127.0.0.1:${port}`;
-  browserHandle = await launchBrowser();
-});
-afterAll(async () => {
-  await browserHandle?.close();
-  if (server) await stopServerProcess(server);
-});
+const app = useAppInBrowser();
 
 /** The fans as the server holds them, read with the page's own session. */
 const serverFans = (page: Page) => page.evaluate(() => fetch('/api/fans').then((r) => r.json() as Promise<{ fans: FanDto[] }>));
@@ -36,9 +22,9 @@ async function fillCurve(page: Page, points: [string, string][]) {
 
 describe('keeping the company fan list', () => {
   it('lets the admin add a fan with its curve, refuses a rising curve and a taken name, and corrects a point', async () => {
-    const context = await browserHandle.browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
-    await signInAs(page, baseUrl, 'admin');
+    await signInAs(page, app.baseUrl, 'admin');
     await page.getByRole('link', { name: 'Settings' }).click();
     await page.getByRole('heading', { name: 'Fans and their curves' }).waitFor();
     const form = page.getByRole('form', { name: 'Add a fan' });

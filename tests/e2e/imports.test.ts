@@ -1,37 +1,25 @@
 import path from 'node:path';
-import type { ChildProcess } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { freePort, startServerProcess, stopServerProcess } from '../setup/server-process.js';
-import { ARTIFACTS, homeScreenPoint, launchBrowser, signInAs, waitForMapIdle } from '../setup/browser.js';
+import { useAppInBrowser } from '../setup/e2e.js';
+import { ARTIFACTS, homeScreenPoint, signInAs, waitForMapIdle } from '../setup/browser.js';
 import { startFakeGeocoder, type FakeGeocoder } from '../../server/fakes/geocoder.js';
 
 const FIXTURE = path.resolve('tests/fixtures/addresses-browser.csv');
 
-let server: ChildProcess;
 let geocoder: FakeGeocoder;
-let baseUrl: string;
-let browserHandle: Awaited<ReturnType<typeof launchBrowser>>;
-
 beforeAll(async () => {
   geocoder = await startFakeGeocoder(0);
-  const port = await freePort();
-  server = await startServerProcess(port, { GEOCODER_URL: geocoder.url });
-  baseUrl = `http://127.0.0.1:${port}`;
-  browserHandle = await launchBrowser();
 });
 afterAll(async () => {
-  await browserHandle?.close();
-  if (server) await stopServerProcess(server);
   await geocoder?.close();
 });
-
-
+const app = useAppInBrowser(() => ({ GEOCODER_URL: geocoder.url }));
 
 describe('importing addresses in the browser', () => {
   it('uploads a file, maps a column, previews, imports, and finds the new homes on the map', async () => {
-    const context = await browserHandle.browser.newContext({ viewport: { width: 1280, height: 800 } });
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 800 } });
     const page = await context.newPage();
-    await signInAs(page, baseUrl, 'estimator');
+    await signInAs(page, app.baseUrl, 'estimator');
     await page.getByRole('link', { name: 'Import addresses' }).click();
     await page.waitForURL(/\/imports$/);
 

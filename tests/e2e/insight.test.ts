@@ -1,41 +1,25 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { ChildProcess } from 'node:child_process';
+import { describe, expect, it } from 'vitest';
 import path from 'node:path';
-import { freePort, startServerProcess, stopServerProcess } from '../setup/server-process.js';
-import { ARTIFACTS, launchBrowser, signInAs, waitForMapIdle } from '../setup/browser.js';
+import { useAppInBrowser } from '../setup/e2e.js';
+import { ARTIFACTS, signInAs, waitForMapIdle } from '../setup/browser.js';
 import { demoUser } from '../setup/demo.js';
 import { ApiClient } from '../setup/test-app.js';
 import type { BuilderComparisonDto } from '../../shared/schemas/insight.js';
 
-let server: ChildProcess;
-let baseUrl: string;
-let browserHandle: Awaited<ReturnType<typeof launchBrowser>>;
-
-beforeAll(async () => {
-  const port = await freePort();
-  server = await startServerProcess(port);
-  baseUrl = `http://127.0.0.1:${port}`;
-  browserHandle = await launchBrowser();
-});
-afterAll(async () => {
-  await browserHandle?.close();
-  if (server) await stopServerProcess(server);
-});
-
-
+const app = useAppInBrowser();
 
 describe('builder comparison', () => {
   it('shows a manager the chart, and a builder-year cell opens the map filtered to those homes', async () => {
     // The row to click: the demo's most-sampled builder × year × community (from the API, as the page shows it).
-    const api = new ApiClient(baseUrl);
+    const api = new ApiClient(app.baseUrl);
     await api.signIn(demoUser('manager'));
     const comparison = (await api.get('/api/insight/builders')).body as BuilderComparisonDto;
     const row = [...comparison.rows].sort((a, b) => b.sampled - a.sampled)[0];
 
-    const context = await browserHandle.browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
     page.on('pageerror', (e) => console.log('page error:', e.message));
-    await signInAs(page, baseUrl, 'manager');
+    await signInAs(page, app.baseUrl, 'manager');
     // Signing in lands on the map; let it finish loading before leaving it (the map instance is reused later).
     await waitForMapIdle(page, 'insight');
     await page.getByRole('link', { name: 'Compare builders' }).click();

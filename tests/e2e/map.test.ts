@@ -1,39 +1,23 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { ChildProcess } from 'node:child_process';
+import { describe, expect, it } from 'vitest';
 import path from 'node:path';
-import { freePort, startServerProcess, stopServerProcess } from '../setup/server-process.js';
-import { ARTIFACTS, homeScreenPoint, launchBrowser, signInAs, waitForMapIdle } from '../setup/browser.js';
+import { useAppInBrowser } from '../setup/e2e.js';
+import { ARTIFACTS, homeScreenPoint, signInAs, waitForMapIdle } from '../setup/browser.js';
 import { demoUser } from '../setup/demo.js';
 import { ApiClient } from '../setup/test-app.js';
 
-let server: ChildProcess;
-let baseUrl: string;
-let browserHandle: Awaited<ReturnType<typeof launchBrowser>>;
-
-beforeAll(async () => {
-  const port = await freePort();
-  server = await startServerProcess(port);
-  baseUrl = `http://127.0.0.1:${port}`;
-  browserHandle = await launchBrowser();
-});
-afterAll(async () => {
-  await browserHandle?.close();
-  if (server) await stopServerProcess(server);
-});
-
-
+const app = useAppInBrowser();
 
 describe('the map', () => {
   it('draws the demo town with street labels from this origin only, and opens a tapped home', async () => {
-    const api = new ApiClient(baseUrl);
+    const api = new ApiClient(app.baseUrl);
     await api.signIn(demoUser('technician'));
     const target = (await api.get('/api/homes?limit=1&q=1')).body.homes[0];
 
-    const context = await browserHandle.browser.newContext({ viewport: { width: 1280, height: 800 } });
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 800 } });
     const page = await context.newPage();
     const requests: string[] = [];
     page.on('request', (r) => requests.push(r.url()));
-    await signInAs(page, baseUrl, 'technician');
+    await signInAs(page, app.baseUrl, 'technician');
     await waitForMapIdle(page, 'map');
 
     // Street names are drawn: rendered label features from the basemap's symbol layers.
@@ -65,7 +49,7 @@ describe('the map', () => {
     await page.screenshot({ path: path.join(ARTIFACTS, 'map-home-panel.png') });
 
     // Every request the page made went to the app's own origin.
-    const foreign = requests.filter((u) => !u.startsWith(baseUrl) && !u.startsWith('data:') && !u.startsWith('blob:'));
+    const foreign = requests.filter((u) => !u.startsWith(app.baseUrl) && !u.startsWith('data:') && !u.startsWith('blob:'));
     expect(foreign).toEqual([]);
     expect(requests.some((u) => u.includes('/glyphs/'))).toBe(true);
     expect(requests.some((u) => u.includes('/tiles/homes/'))).toBe(true);
@@ -73,9 +57,9 @@ describe('the map', () => {
   });
 
   it('draws the homes after the user left the map before it finished loading', async () => {
-    const context = await browserHandle.browser.newContext({ viewport: { width: 1280, height: 800 } });
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 800 } });
     const page = await context.newPage();
-    await signInAs(page, baseUrl, 'technician');
+    await signInAs(page, app.baseUrl, 'technician');
     // Leave at once: the map keeps loading off-screen and is reused when the user comes back.
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Homes' }).click();
     await page.getByRole('table').waitFor();
@@ -91,9 +75,9 @@ describe('the map', () => {
   });
 
   it('keeps filters in the URL and restores camera and filters after a reload', async () => {
-    const context = await browserHandle.browser.newContext({ viewport: { width: 390, height: 844 } });
+    const context = await app.browser.newContext({ viewport: { width: 390, height: 844 } });
     const page = await context.newPage();
-    await signInAs(page, baseUrl, 'manager');
+    await signInAs(page, app.baseUrl, 'manager');
     await waitForMapIdle(page, 'map');
     await page.getByRole('button', { name: 'Filters and style' }).click();
     await page.getByLabel('Show homes by').selectOption('vacuum');
@@ -110,7 +94,7 @@ describe('the map', () => {
     const zoom = await page.evaluate(() => (window as unknown as { __tractwiseMap: { getZoom(): number } }).__tractwiseMap.getZoom());
     expect(zoom).toBeCloseTo(15.5, 1);
     // Opening the map from the navigation brings the same filters back.
-    await page.goto(baseUrl + '/');
+    await page.goto(app.baseUrl + '/');
     await page.waitForURL(/style=vacuum/);
     await page.screenshot({ path: path.join(ARTIFACTS, 'map-phone-vacuum.png') });
     await context.close();

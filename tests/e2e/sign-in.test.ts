@@ -1,36 +1,22 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { ChildProcess } from 'node:child_process';
+import { describe, expect, it } from 'vitest';
 import path from 'node:path';
-import { freePort, startServerProcess, stopServerProcess } from '../setup/server-process.js';
-import { ARTIFACTS, launchBrowser } from '../setup/browser.js';
+import { useAppInBrowser } from '../setup/e2e.js';
+import { ARTIFACTS } from '../setup/browser.js';
 import { demoCompanyName, demoUser } from '../setup/demo.js';
 
-let server: ChildProcess;
-let baseUrl: string;
-let browserHandle: Awaited<ReturnType<typeof launchBrowser>>;
-
-beforeAll(async () => {
-  const port = await freePort();
-  server = await startServerProcess(port);
-  baseUrl = `http://127.0.0.1:${port}`;
-  browserHandle = await launchBrowser();
-});
-afterAll(async () => {
-  await browserHandle?.close();
-  if (server) await stopServerProcess(server);
-});
+const app = useAppInBrowser();
 
 describe('signing in through the browser', () => {
   it('sends a signed-out visitor to sign-in, lets the technician in, shows the shell, and signs out', async () => {
-    const context = await browserHandle.browser.newContext({ viewport: { width: 390, height: 844 } });
+    const context = await app.browser.newContext({ viewport: { width: 390, height: 844 } });
     const page = await context.newPage();
-    await page.goto(baseUrl + '/homes');
+    await page.goto(app.baseUrl + '/homes');
     await page.waitForURL(/\/sign-in\?next=%2Fhomes/);
 
     await page.getByLabel('E-mail').fill(demoUser('technician'));
     await page.getByLabel('Password').fill('demo-pass-2026');
     await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.waitForURL(baseUrl + '/homes');
+    await page.waitForURL(app.baseUrl + '/homes');
 
     const nav = page.getByRole('navigation', { name: 'Main' });
     // The shell renders once the session query answers; wait for it rather than sampling once.
@@ -43,15 +29,15 @@ describe('signing in through the browser', () => {
 
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.waitForURL(/\/sign-in/);
-    await page.goto(baseUrl + '/');
+    await page.goto(app.baseUrl + '/');
     await page.waitForURL(/\/sign-in/);
     await context.close();
   });
 
   it('shows the admin the settings page with the company name', async () => {
-    const context = await browserHandle.browser.newContext({ viewport: { width: 1280, height: 800 } });
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 800 } });
     const page = await context.newPage();
-    await page.goto(baseUrl + '/sign-in');
+    await page.goto(app.baseUrl + '/sign-in');
     await page.getByLabel('E-mail').fill(demoUser('admin'));
     await page.getByLabel('Password').fill('demo-pass-2026');
     await page.getByRole('button', { name: 'Sign in' }).click();

@@ -1,27 +1,13 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { ChildProcess } from 'node:child_process';
+import { describe, expect, it } from 'vitest';
 import path from 'node:path';
 import sharp from 'sharp';
 import type { BrowserContext, Page } from 'playwright-core';
-import { freePort, startServerProcess, stopServerProcess } from '../setup/server-process.js';
-import { ARTIFACTS, homeScreenPoint, launchBrowser, signInAs, waitForMapIdle } from '../setup/browser.js';
+import { useAppInBrowser } from '../setup/e2e.js';
+import { ARTIFACTS, homeScreenPoint, signInAs, waitForMapIdle } from '../setup/browser.js';
 import { demoUser } from '../setup/demo.js';
 import { ApiClient } from '../setup/test-app.js';
 
-let server: ChildProcess;
-let baseUrl: string;
-let browserHandle: Awaited<ReturnType<typeof launchBrowser>>;
-
-beforeAll(async () => {
-  const port = await freePort();
-  server = await startServerProcess(port);
-  baseUrl = `http://127.0.0.1:${port}`;
-  browserHandle = await launchBrowser();
-});
-afterAll(async () => {
-  await browserHandle?.close();
-  if (server) await stopServerProcess(server);
-});
+const app = useAppInBrowser();
 
 type MapHandle = {
   loaded(): boolean;
@@ -29,8 +15,6 @@ type MapHandle = {
   isMoving(): boolean;
   queryRenderedFeatures(o: { layers: string[] }): { properties: Record<string, unknown> }[];
 };
-
-
 
 /** The outcome property of the home's symbol as MapLibre drew it from the homes tiles (null when not drawn). */
 const drawnOutcome = async (page: Page, homeId: string) => (await homeScreenPoint(page, homeId))?.outcome ?? null;
@@ -63,7 +47,7 @@ describe('recording a visit on a phone', () => {
   let firstHomeId = '';
 
   it('keeps a visit and its photo while offline, sends them once online, and the map shows the new outcome', async () => {
-    const context: BrowserContext = await browserHandle.browser.newContext({ viewport: { width: 390, height: 844 } });
+    const context: BrowserContext = await app.browser.newContext({ viewport: { width: 390, height: 844 } });
     const page = await context.newPage();
     const visitPosts: string[] = [];
     const photoPuts: string[] = [];
@@ -71,7 +55,7 @@ describe('recording a visit on a phone', () => {
       if (r.method() === 'POST' && /\/api\/homes\/[^/]+\/visits$/.test(new URL(r.url()).pathname)) visitPosts.push(String(r.postDataJSON()?.id));
       if (r.method() === 'PUT' && new URL(r.url()).pathname.includes('/attachments/')) photoPuts.push(r.url());
     });
-    await signInAs(page, baseUrl, 'technician');
+    await signInAs(page, app.baseUrl, 'technician');
     await waitForMapIdle(page, 'visits');
 
     const home = await notVisitedHome(page);
@@ -127,7 +111,7 @@ describe('recording a visit on a phone', () => {
     await page.screenshot({ path: path.join(ARTIFACTS, 'visit-queued-offline.png') });
 
     // Nothing reached the server while offline.
-    const api = new ApiClient(baseUrl);
+    const api = new ApiClient(app.baseUrl);
     await api.signIn(demoUser('technician'));
     expect((await api.get(`/api/homes/${home.id}`)).body.visits).toHaveLength(0);
     expect(visitPosts).toHaveLength(0);
@@ -167,12 +151,12 @@ describe('recording a visit on a phone', () => {
   });
 
   it('opens the visit form offline after one online visit (service worker) and sends what was saved there', async () => {
-    const context = await browserHandle.browser.newContext({ viewport: { width: 390, height: 844 } });
+    const context = await app.browser.newContext({ viewport: { width: 390, height: 844 } });
     const page = await context.newPage();
-    await signInAs(page, baseUrl, 'technician');
+    await signInAs(page, app.baseUrl, 'technician');
     const home = await notVisitedHome(page, [firstHomeId]);
     // The first online visit installs the service worker and lets it cache the app shell.
-    await page.goto(`${baseUrl}/homes/${home.id}/visit`);
+    await page.goto(`${app.baseUrl}/homes/${home.id}/visit`);
     await page.getByRole('button', { name: 'Save visit' }).waitFor();
     await page.evaluate(() => navigator.serviceWorker.ready.then(() => undefined));
 
@@ -197,13 +181,13 @@ describe('recording a visit on a phone', () => {
 
     await context.setOffline(false);
     await waitUntilSent(page);
-    const api = new ApiClient(baseUrl);
+    const api = new ApiClient(app.baseUrl);
     await api.signIn(demoUser('technician'));
     const detail = (await api.get(`/api/homes/${home.id}`)).body;
     expect(detail.visits).toHaveLength(1);
     expect(detail.visits[0]).toMatchObject({ status: 'no_access', notes: 'Gate locked; left a door hanger.' });
     expect(detail.visits[0].attachments).toMatchObject([{ kind: 'photo', subject: 'other', contentType: 'image/jpeg' }]);
-    const thumbnail = await fetch(`${baseUrl}/api/attachments/${detail.visits[0].attachments[0].id}/thumbnail`, { headers: { Cookie: api.cookie } });
+    const thumbnail = await fetch(`${app.baseUrl}/api/attachments/${detail.visits[0].attachments[0].id}/thumbnail`, { headers: { Cookie: api.cookie } });
     expect(thumbnail.status).toBe(200);
     expect(thumbnail.headers.get('content-type')).toMatch(/^image\//);
     expect(detail.home.outcome).toBe('declined');
@@ -211,10 +195,10 @@ describe('recording a visit on a phone', () => {
   });
 
   it('records a post-mitigation test with its lab report, warning live about timing and length without blocking', async () => {
-    const context = await browserHandle.browser.newContext({ viewport: { width: 390, height: 844 } });
+    const context = await app.browser.newContext({ viewport: { width: 390, height: 844 } });
     const page = await context.newPage();
-    await signInAs(page, baseUrl, 'technician');
-    await page.goto(`${baseUrl}/homes/${firstHomeId}/test`);
+    await signInAs(page, app.baseUrl, 'technician');
+    await page.goto(`${app.baseUrl}/homes/${firstHomeId}/test`);
     await page.getByRole('button', { name: 'Save test' }).waitFor();
     // The home was activated in the first test: post-mitigation by default, the fan time from that visit.
     expect(await page.getByRole('radio', { name: 'Post-mitigation' }).isChecked()).toBe(true);
@@ -245,7 +229,7 @@ describe('recording a visit on a phone', () => {
     await page.waitForURL((u) => u.pathname === '/' && u.searchParams.get('home') === firstHomeId);
     await waitUntilSent(page);
 
-    const api = new ApiClient(baseUrl);
+    const api = new ApiClient(app.baseUrl);
     await api.signIn(demoUser('technician'));
     const detail = (await api.get(`/api/homes/${firstHomeId}`)).body;
     expect(detail.tests).toHaveLength(1);

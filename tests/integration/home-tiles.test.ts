@@ -115,6 +115,22 @@ describe('homes vector tiles', () => {
     }
   });
 
+  it('carries the last manometer vacuum in in. WC and the last post-mitigation level in pCi/L', async () => {
+    const { rows: [measured] } = await app.database.pool.query(
+      `select h.id::text as id, ST_X(h.location) as lon, ST_Y(h.location) as lat, h.last_vacuum_pa, h.last_post_bq_m3
+       from homes h join users u on u.company_id = h.company_id
+       where u.email = $1 and h.last_vacuum_pa is not null and h.last_post_bq_m3 is not null limit 1`,
+      [demoUser('technician')],
+    );
+    expect(measured).toBeDefined();
+    const { z, x, y } = tileFor(measured.lon, measured.lat, 16);
+    const layer = decodeTile((await fetchTile(tech, `/tiles/homes/${z}/${x}/${y}.pbf`)).body).layers.homes;
+    const f = Array.from({ length: layer.length }, (_, i) => layer.feature(i)).find((g) => g.properties.id === measured.id)!;
+    // 1 in. WC = 249.0889 Pa (NIST SP 811 B.8); 1 pCi/L = 37 Bq/m³ (1 Ci = 3.7e10 Bq, curie definition).
+    expect(f.properties.vacuum_in_wc).toBeCloseTo(Math.round((measured.last_vacuum_pa / 249.0889) * 100) / 100, 9);
+    expect(f.properties.post_pci_l).toBeCloseTo(Math.round((measured.last_post_bq_m3 / 37) * 10) / 10, 9);
+  });
+
   it('answers an empty, valid tile outside the town', async () => {
     const res = await fetchTile(tech, '/tiles/homes/14/0/0.pbf');
     expect(res.status).toBe(200);

@@ -83,13 +83,13 @@ describe('builder comparison', () => {
     expect(row.medianVacuumPa).toBeCloseTo(Number(rows[0].median), 6);
   });
 
-  it('lists the most common rework reasons of each cell as counted from the visits', async () => {
+  it('lists the most common rework reasons of each cell: homes whose completed visits cited each, recounted from the visits', async () => {
     const body = (await manager.get(`/api/insight/builders?communityId=${tamarack.id}`)).body as BuilderComparisonDto;
     const withReasons = body.rows.filter((r) => r.topReworkReasons.length > 0);
     expect(withReasons.length).toBeGreaterThan(0);
     const r: ComparisonRow = withReasons[0];
     const { rows } = await app.database.pool.query(
-      `select reason, count(*)::int as count from visits v join homes h on h.id = v.home_id, unnest(v.rework_reasons) reason
+      `select reason, count(distinct h.id)::int as count from visits v join homes h on h.id = v.home_id, unnest(v.rework_reasons) reason
        where h.company_id = $1 and h.community_id = $2 and h.builder_id = $3 and h.year_built = $4 and v.status = 'completed'
        group by reason order by count desc, reason limit 3`,
       [companyId, tamarack.id, r.builderId, r.yearBuilt],

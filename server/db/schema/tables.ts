@@ -157,6 +157,8 @@ export const homes = pgTable(
     lastVacuumPa: doublePrecision('last_vacuum_pa'),
     lastPostBqM3: doublePrecision('last_post_bq_m3'),
     reworkFlag: boolean('rework_flag').notNull().default(false),
+    /** Derived: every rework reason cited by the home's completed visits (distinct, sorted). */
+    reworkReasons: text('rework_reasons').array().notNull().default(sql`'{}'::text[]`),
     sampled: boolean('sampled').notNull().default(false),
     failed: boolean('failed').notNull().default(false),
     createdAt: createdAt(),

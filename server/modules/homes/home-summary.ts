@@ -3,6 +3,7 @@ import { averageSideBySide } from '../../../shared/domain/radon-tests.js';
 
 export interface SummaryVisit extends OutcomeVisit {
   vacuumPa: number | null;
+  reworkReasons?: readonly string[] | null;
 }
 
 export interface HomeSummary {
@@ -10,6 +11,8 @@ export interface HomeSummary {
   lastVacuumPa: number | null;
   lastPostBqM3: number | null;
   reworkFlag: boolean;
+  /** Every rework reason the completed visits cited, distinct and sorted. */
+  reworkReasons: string[];
   sampled: boolean;
   failed: boolean;
 }
@@ -28,6 +31,7 @@ export function summariseHome(visits: SummaryVisit[], tests: OutcomeTest[], acti
     lastVacuumPa: lastVacuum,
     lastPostBqM3: posts.length ? posts[posts.length - 1].resultBqM3 : null,
     reworkFlag: completed.some((v) => v.reworkNeeded || v.reworkDone),
+    reworkReasons: [...new Set(completed.flatMap((v) => v.reworkReasons ?? []))].sort(),
     sampled: isSampled(input),
     failed: isFailure(input),
   };

@@ -118,7 +118,7 @@ export async function lockHome(db: DbOrTx, companyId: string, id: string) {
 export async function summaryInputs(db: DbOrTx, companyId: string, homeId: string) {
   // One after the other: inside a transaction both run on the same connection.
   const visitRows = await db
-    .select({ visitedOn: visits.visitedOn, status: visits.status, reworkNeeded: visits.reworkNeeded, reworkDone: visits.reworkDone, vacuumPa: visits.vacuumPa })
+    .select({ visitedOn: visits.visitedOn, status: visits.status, reworkNeeded: visits.reworkNeeded, reworkDone: visits.reworkDone, vacuumPa: visits.vacuumPa, reworkReasons: visits.reworkReasons })
     .from(visits)
     .where(and(eq(visits.companyId, companyId), eq(visits.homeId, homeId)));
   const testRows = await db
@@ -132,7 +132,7 @@ export async function writeSummary(
   db: DbOrTx,
   companyId: string,
   homeId: string,
-  summary: Pick<typeof homes.$inferInsert, 'outcome' | 'lastVacuumPa' | 'lastPostBqM3' | 'reworkFlag' | 'sampled' | 'failed'>,
+  summary: Pick<typeof homes.$inferInsert, 'outcome' | 'lastVacuumPa' | 'lastPostBqM3' | 'reworkFlag' | 'reworkReasons' | 'sampled' | 'failed'>,
 ) {
   await db
     .update(homes)

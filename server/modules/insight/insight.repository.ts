@@ -1,5 +1,6 @@
 import { sql } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../../db/client.js';
+import { REWORK_REASONS } from '../../../shared/schemas/enums.js';
 
 export interface CellRow {
   builderId: string;
@@ -15,21 +16,23 @@ export interface CellRow {
   topReworkReasons: { reason: string; count: number }[];
 }
 
-/** Stands in for "no community" in join keys (no real row has the nil UUID). */
-const NO_COMMUNITY = '00000000-0000-0000-0000-000000000000';
-
 /** How many of the most common rework reasons each cell lists. */
 const TOP_REASONS = 3;
 
 /**
  * Builder × community × construction-year aggregates of a company's homes, computed by PostgreSQL
- * in one statement: counts from the derived `sampled`/`failed` flags kept on each home
+ * in one pass over homes: counts from the derived `sampled`/`failed` flags kept on each home
  * (server/modules/homes/home-summary.ts), medians of the homes' latest manometer vacuum and
- * post-mitigation level (percentile_cont, sampled homes only), and the most common rework reasons
- * over completed visits (unnest of rework_reasons). Homes without a builder are left out.
+ * post-mitigation level (percentile_cont, sampled homes only), and for each rework reason the number
+ * of homes whose completed visits cited it (the derived `rework_reasons`). Homes without a builder
+ * are left out.
  */
 export async function builderYearCells(db: Db, companyId: string): Promise<CellRow[]> {
-  return db.transaction(async (tx) => {
+  const reasonCounts = sql.join(
+    REWORK_REASONS.map((reason) => sql`count(*) filter (where ${reason} = any(h.rework_reasons))::int as ${sql.identifier(`reason_${reason}`)}`),
+    sql`, `,
+  );
+  const rows = await db.transaction(async (tx) => {
     // The per-cell medians sort every home once: give that sort memory instead of temporary files,
     // and skip JIT compilation, which costs more than it saves on a query that runs this briefly.
     await tx.execute(sql`set local work_mem = '64MB'`);
@@ -41,44 +44,40 @@ export async function builderYearCells(db: Db, companyId: string): Promise<CellR
              count(*) filter (where h.sampled)::int as sampled,
              count(*) filter (where h.sampled and h.failed)::int as failures,
              percentile_cont(0.5) within group (order by h.last_vacuum_pa) filter (where h.sampled) as median_vacuum_pa,
-             percentile_cont(0.5) within group (order by h.last_post_bq_m3) filter (where h.sampled) as median_post_bq_m3
+             percentile_cont(0.5) within group (order by h.last_post_bq_m3) filter (where h.sampled) as median_post_bq_m3,
+             ${reasonCounts}
       from homes h
       where h.company_id = ${companyId} and h.builder_id is not null
       group by h.builder_id, h.community_id, h.year_built
-    ),
-    reason_counts as (
-      select h.builder_id, h.community_id, h.year_built, r.reason, count(*)::int as n
-      from visits v
-      join homes h on h.id = v.home_id
-      cross join lateral unnest(v.rework_reasons) as r(reason)
-      where v.company_id = ${companyId} and v.status = 'completed' and cardinality(v.rework_reasons) > 0
-        and h.builder_id is not null
-      group by 1, 2, 3, 4
-    ),
-    ranked as (
-      select *, row_number() over (partition by builder_id, community_id, year_built order by n desc, reason) as rank
-      from reason_counts
-    ),
-    reasons as (
-      select builder_id, community_id, year_built, json_agg(json_build_object('reason', reason, 'count', n) order by rank) as top
-      from ranked where rank <= ${TOP_REASONS}
-      group by 1, 2, 3
     )
-    select c.builder_id::text as "builderId", b.name as "builderName",
+    select ${sql.join(REWORK_REASONS.map((reason) => sql`c.${sql.identifier(`reason_${reason}`)}`), sql`, `)},
+           c.homes, c.sampled, c.failures,
+           c.builder_id::text as "builderId", b.name as "builderName",
            c.community_id::text as "communityId", m.name as "communityName",
-           c.year_built as "yearBuilt", c.homes, c.sampled, c.failures,
-           c.median_vacuum_pa as "medianVacuumPa", c.median_post_bq_m3 as "medianPostBqM3",
-           coalesce(r.top, '[]'::json) as "topReworkReasons"
+           c.year_built as "yearBuilt",
+           c.median_vacuum_pa as "medianVacuumPa", c.median_post_bq_m3 as "medianPostBqM3"
     from cells c
     join builders b on b.id = c.builder_id
     left join communities m on m.id = c.community_id
-    -- Plain equality on non-null keys lets the planner hash this join (IS NOT DISTINCT FROM cannot be hashed).
-    left join reasons r on r.builder_id = c.builder_id
-      and coalesce(r.community_id, ${NO_COMMUNITY}::uuid) = coalesce(c.community_id, ${NO_COMMUNITY}::uuid)
-      and coalesce(r.year_built, -1) = coalesce(c.year_built, -1)
     order by b.name, m.name nulls last, c.year_built nulls last`);
-    return result.rows as unknown as CellRow[];
+    return result.rows;
   });
+  return rows.map((r) => ({
+    builderId: r.builderId as string,
+    builderName: r.builderName as string,
+    communityId: (r.communityId as string | null) ?? null,
+    communityName: (r.communityName as string | null) ?? null,
+    yearBuilt: (r.yearBuilt as number | null) ?? null,
+    homes: r.homes as number,
+    sampled: r.sampled as number,
+    failures: r.failures as number,
+    medianVacuumPa: (r.medianVacuumPa as number | null) ?? null,
+    medianPostBqM3: (r.medianPostBqM3 as number | null) ?? null,
+    topReworkReasons: REWORK_REASONS.map((reason) => ({ reason, count: r[`reason_${reason}`] as number }))
+      .filter((x) => x.count > 0)
+      .sort((a, b) => b.count - a.count || (a.reason < b.reason ? -1 : 1))
+      .slice(0, TOP_REASONS),
+  }));
 }
 
 /** Homes of each builder in a community (for weighting a multi-builder community's pooled prior). */

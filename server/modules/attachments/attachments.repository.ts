@@ -1,6 +1,6 @@
 import { and, eq } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client.js';
-import { attachments, homes, radonTests, visits } from '../../db/schema/tables.js';
+import { attachments, homes, radonTests } from '../../db/schema/tables.js';
 
 const attachmentColumns = {
   id: attachments.id,
@@ -37,13 +37,8 @@ export async function homeExists(db: DbOrTx, companyId: string, homeId: string) 
   return Boolean(row);
 }
 
-export async function visitOfHome(db: DbOrTx, companyId: string, homeId: string, visitId: string) {
-  const [row] = await db
-    .select({ id: visits.id })
-    .from(visits)
-    .where(and(eq(visits.companyId, companyId), eq(visits.homeId, homeId), eq(visits.id, visitId)));
-  return Boolean(row);
-}
+/** True when the visit belongs to this home of this company (shared with the visits module). */
+export { visitOfHome } from '../visits/visits.repository.js';
 
 export async function testOfHome(db: DbOrTx, companyId: string, homeId: string, testId: string) {
   const [row] = await db

@@ -71,24 +71,9 @@ export async function communitiesAt(db: Queryable, companyId: string, points: { 
   return out;
 }
 
-export interface StoredHome {
+/** A home as stored: the imported values and its id. */
+export interface StoredHome extends HomeValues {
   id: string;
-  addressKey: string;
-  number: string;
-  street: string;
-  unit: string | null;
-  city: string;
-  state: string;
-  zip: string;
-  lon: number;
-  lat: number;
-  communityId: string | null;
-  builderId: string | null;
-  yearBuilt: number | null;
-  foundation: string | null;
-  ownerName: string;
-  mailingAddress: string;
-  doNotContact: boolean;
 }
 
 /** The company's homes at these address keys; `lock` holds them until the transaction ends. */

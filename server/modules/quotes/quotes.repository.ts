@@ -109,7 +109,8 @@ export function communityHomes(db: DbOrTx, companyId: string, communityId: strin
       outcome: homes.outcome,
       lastVacuumPa: homes.lastVacuumPa,
       lastPostBqM3: homes.lastPostBqM3,
-      reworkReasons: sql<string[]>`coalesce((select array_agg(distinct r) from ${visits} v, unnest(v.rework_reasons) r where v.home_id = "homes"."id" and v.company_id = ${companyId}), '{}')`,
+      // Derived on the home from its completed visits (server/modules/homes/home-summary.ts).
+      reworkReasons: homes.reworkReasons,
     })
     .from(homes)
     .where(and(eq(homes.companyId, companyId), eq(homes.communityId, communityId)))

@@ -107,13 +107,28 @@ export function priorFromRest(groups: readonly PoolingGroup[], heldOutKey: strin
  * the same answer as `betaQuantile` (bisection) in a handful of CDF evaluations instead of
  * about fifty, which matters when a comparison has thousands of cells.
  */
+/**
+ * Standard normal quantile, Abramowitz & Stegun (1964) 26.2.23 (absolute error < 4.5e-4): only a
+ * starting point for Newton in `betaQuantileFast`, never an answer.
+ */
+function normalQuantileApprox(p: number): number {
+  const q = p < 0.5 ? p : 1 - p;
+  const t = Math.sqrt(-2 * Math.log(q));
+  const z = t - (2.515517 + 0.802853 * t + 0.010328 * t * t) / (1 + 1.432788 * t + 0.189269 * t * t + 0.001308 * t * t * t);
+  return p < 0.5 ? -z : z;
+}
+
 export function betaQuantileFast(p: number, a: number, b: number): number {
   if (p <= 0) return 0;
   if (p >= 1) return 1;
   const logNorm = logBeta(a, b);
   let low = 0;
   let high = 1;
-  let x = Math.min(0.999, Math.max(0.001, a / (a + b)));
+  // Start where a normal with the Beta's mean and variance puts the quantile, so Newton needs two or
+  // three steps instead of five or six; the bracket keeps the answer the same as from any start.
+  const mean = a / (a + b);
+  const sd = Math.sqrt((a * b) / ((a + b) ** 2 * (a + b + 1)));
+  let x = Math.min(0.999, Math.max(0.001, mean + normalQuantileApprox(p) * sd));
   for (let i = 0; i < 100; i += 1) {
     const f = regularizedIncompleteBeta(x, a, b) - p;
     if (f < 0) low = x;

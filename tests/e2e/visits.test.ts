@@ -107,7 +107,7 @@ describe('recording a visit on a phone', () => {
     await page.waitForURL((u) => u.pathname === '/' && u.searchParams.get('home') === home.id);
     const status = page.getByRole('status').filter({ hasText: 'Waiting to send (2)' });
     await status.waitFor();
-    await expect(page.getByTestId('home-waiting').textContent()).resolves.toContain('1 visit');
+    await expect(page.getByTestId('home-waiting').textContent()).resolves.toContain('1 visit, 1 photo');
     await page.screenshot({ path: path.join(ARTIFACTS, 'visit-queued-offline.png') });
 
     // Nothing reached the server while offline.

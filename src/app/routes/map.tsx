@@ -136,15 +136,23 @@ function FieldActions({ homeId }: { homeId: string }) {
   const role = session.data?.user?.role;
   if (!role || !FIELD_ROLES.includes(role)) return null;
   const waiting = outbox.pending.filter((i) => i.homeId === homeId);
-  const visits = waiting.filter((i) => i.kind === 'visit').length;
-  const others = waiting.length - visits;
+  const count = (kind: string, one: string, many: string) => {
+    const n = waiting.filter((i) => i.kind === kind).length;
+    return n === 0 ? null : `${n} ${n === 1 ? one : many}`;
+  };
+  const parts = [
+    count('visit', 'visit', 'visits'),
+    count('photo', 'photo', 'photos'),
+    count('radon_test', 'radon test', 'radon tests'),
+    count('lab_report', 'lab report', 'lab reports'),
+  ].filter(Boolean);
   return (
     <>
       <Link to={`/homes/${homeId}/visit`} className={`${ACTION_LINK} bg-accent text-white hover:bg-accent-dark`}>Record a visit</Link>
       <Link to={`/homes/${homeId}/test`} className={`${ACTION_LINK} border border-rule bg-panel text-ink hover:border-accent`}>Record a radon test</Link>
       {waiting.length > 0 && (
         <p className="w-full text-sm text-muted" data-testid="home-waiting">
-          On this device, waiting to send: {[visits && `${visits} visit${visits > 1 ? 's' : ''}`, others && `${others} other record${others > 1 ? 's' : ''}`].filter(Boolean).join(', ')}.
+          On this device, waiting to send: {parts.join(', ')}.
         </p>
       )}
     </>

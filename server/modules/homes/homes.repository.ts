@@ -2,16 +2,24 @@ import { and, asc, eq, ilike, sql, type SQL } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client.js';
 import { builders, communities, homes, radonTests, visits } from '../../db/schema/tables.js';
 
-export const homeColumns = {
+/** Where a home is: what every list of homes and every map of them selects. */
+export const homePlaceColumns = {
   id: homes.id,
   number: homes.number,
   street: homes.street,
   unit: homes.unit,
+  lon: sql<number>`ST_X(${homes.location})`,
+  lat: sql<number>`ST_Y(${homes.location})`,
+};
+
+/** Street order, then house numbers in numeric order ("9" before "10"). */
+export const streetOrder = [homes.street, sql`length(${homes.number})`, homes.number] as const;
+
+export const homeColumns = {
+  ...homePlaceColumns,
   city: homes.city,
   state: homes.state,
   zip: homes.zip,
-  lon: sql<number>`ST_X(${homes.location})`,
-  lat: sql<number>`ST_Y(${homes.location})`,
   communityId: homes.communityId,
   communityName: communities.name,
   builderId: homes.builderId,

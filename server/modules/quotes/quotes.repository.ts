@@ -1,6 +1,7 @@
 import { and, desc, eq, sql } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import type { DbOrTx } from '../../db/client.js';
+import { homePlaceColumns, streetOrder } from '../homes/homes.repository.js';
 import { communities, companies, homes, quotes, visits } from '../../db/schema/tables.js';
 import { users } from '../../db/schema/tables.js';
 
@@ -97,13 +98,8 @@ export async function communityOutline(db: DbOrTx, companyId: string, communityI
 export function communityHomes(db: DbOrTx, companyId: string, communityId: string) {
   return db
     .select({
-      id: homes.id,
-      number: homes.number,
-      street: homes.street,
-      unit: homes.unit,
+      ...homePlaceColumns,
       yearBuilt: homes.yearBuilt,
-      lon: sql<number>`ST_X(${homes.location})`,
-      lat: sql<number>`ST_Y(${homes.location})`,
       sampled: homes.sampled,
       failed: homes.failed,
       outcome: homes.outcome,
@@ -114,7 +110,7 @@ export function communityHomes(db: DbOrTx, companyId: string, communityId: strin
     })
     .from(homes)
     .where(and(eq(homes.companyId, companyId), eq(homes.communityId, communityId)))
-    .orderBy(homes.street, sql`length(${homes.number})`, homes.number);
+    .orderBy(...streetOrder);
 }
 
 /** One home and its latest figures, for the homeowner's results e-mail. */

@@ -1,5 +1,6 @@
 import { and, desc, eq, sql } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client.js';
+import { homePlaceColumns, streetOrder } from '../homes/homes.repository.js';
 import { communities, homes, samplingPlanHomes, samplingPlans, users } from '../../db/schema/tables.js';
 
 /** Homes, sampled homes and failures of one community, from the derived flags on each home. */
@@ -83,17 +84,12 @@ export async function findPlan(db: DbOrTx, companyId: string, id: string) {
 export function planHomes(db: DbOrTx, companyId: string, planId: string) {
   return db
     .select({
-      id: homes.id,
-      number: homes.number,
-      street: homes.street,
-      unit: homes.unit,
-      lon: sql<number>`ST_X(${homes.location})`,
-      lat: sql<number>`ST_Y(${homes.location})`,
+      ...homePlaceColumns,
       outcome: homes.outcome,
       sampled: homes.sampled,
     })
     .from(samplingPlanHomes)
     .innerJoin(homes, eq(homes.id, samplingPlanHomes.homeId))
     .where(and(eq(samplingPlanHomes.planId, planId), eq(homes.companyId, companyId)))
-    .orderBy(homes.street, sql`length(${homes.number})`, homes.number);
+    .orderBy(...streetOrder);
 }

@@ -1,6 +1,7 @@
 import express, { type Express } from 'express';
 import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
+import { throttleTouch } from './lib/session-store.js';
 import passport from 'passport';
 import helmet from 'helmet';
 import { csrfSync } from 'csrf-sync';
@@ -75,7 +76,9 @@ export function createApp({ env, database, storage = createObjectStorage(env) }:
   app.use(
     session({
       name: 'tw.sid',
-      store: new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+      // Expiry writes at most once a minute per session: a map's burst of tile requests would
+      // otherwise each wait on an UPDATE. The idle timeout (at least 5 minutes) may end up to a minute early.
+      store: throttleTouch(new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }), 60_000),
       secret: env.SESSION_SECRET,
       resave: false,
       saveUninitialized: false,

@@ -39,6 +39,8 @@ export const HomeListQuery = z.object({
 
 export const HomeDto = z.object({
   id: z.string(),
+  /** The home's short number: its feature id in the map's homes tiles. */
+  ref: z.number().int(),
   address: z.string(),
   number: z.string(),
   street: z.string(),
@@ -63,3 +65,6 @@ export const HomeDto = z.object({
   contact: z.object({ ownerName: z.string(), mailingAddress: z.string() }).nullable(),
 });
 export type HomeDto = z.infer<typeof HomeDto>;
+
+/** A home by its short number (a map tile's feature id), as a tap on the map names it. */
+export const HomeRefParams = z.object({ ref: z.coerce.number().int().positive().max(Number.MAX_SAFE_INTEGER) });

@@ -48,7 +48,9 @@ try {
     const body = await res.arrayBuffer();
     const ms = performance.now() - t0;
     if (!res.ok) throw new Error(`${url} → ${res.status}`);
-    return { ms, bytes: body.byteLength };
+    // The server's own figure for building the tile (W3C Server-Timing), when it built one.
+    const built = /dur=([\d.]+)/.exec(res.headers.get('server-timing') ?? '');
+    return { ms, bytes: body.byteLength, buildMs: built ? Number(built[1]) : null };
   }
 
   const rows: Record<string, string | number>[] = [];
@@ -63,11 +65,13 @@ try {
     await pgBump(); // a data change, as a visit or an import makes: every cached tile is now stale
     for (let i = 0; i < 5; i++) await time(`${base}/tiles/homes/${z}/0/0.pbf?w=${i}`, { Cookie: cookie }); // connection and plan warm-up, outside the town
     const cold: number[] = [];
+    const builds: number[] = [];
     const sizes: number[] = [];
     const order = tiles.map((_, i) => tiles[(i * 7919) % tiles.length]);
     for (const t of order.slice(0, REQUESTS_PER_ZOOM)) {
       const r = await time(`${base}/tiles/homes/${z}/${t.x}/${t.y}.pbf`, { Cookie: cookie });
       cold.push(r.ms);
+      if (r.buildMs != null) builds.push(r.buildMs);
       sizes.push(r.bytes);
     }
     const warm: number[] = [];
@@ -86,6 +90,8 @@ try {
     for (let i = 0; i < REQUESTS_PER_ZOOM; i++) staticSamples.push((await time(`${base}/${staticName}?v=${i}`)).ms);
     fs.rmSync(staticPath);
     const stat = summarise(staticSamples);
+    if (builds.length !== cold.length) throw new Error(`only ${builds.length} of ${cold.length} cold requests were built by the server`);
+    const build = summarise(builds);
     for (const [kind, samples] of [['cold (built)', cold], ['warm (cached)', warm]] as const) {
       const tile = summarise(samples);
       rows.push({
@@ -95,6 +101,7 @@ try {
         'mean tile bytes': meanBytes,
         'tile p50 ms': fmt(tile.p50),
         'tile p95 ms': fmt(tile.p95),
+        'of it building p50/p95 ms': samples === cold ? `${fmt(build.p50)} / ${fmt(build.p95)}` : '-',
         'static p50 ms': fmt(stat.p50),
         'static p95 ms': fmt(stat.p95),
         'p95 ratio': fmt(tile.p95 / stat.p95),

@@ -63,12 +63,12 @@ describe('importing addresses in the browser', () => {
     await page.getByRole('button', { name: 'Close home panel' }).click();
     await waitForMapIdle(page, 'imports');
     // The map flew to the home: tap it where the homes layer drew it (neighbours sit a few pixels away).
-    const homeId = await page.evaluate(async () => {
+    const homeRef = await page.evaluate(async () => {
       const res = await fetch('/api/homes?limit=1&q=' + encodeURIComponent('2093 Fennel Ridge Dr'));
-      return ((await res.json()) as { homes: { id: string }[] }).homes[0]?.id ?? null;
+      return ((await res.json()) as { homes: { ref: number }[] }).homes[0]?.ref ?? null;
     });
-    expect(homeId).not.toBeNull();
-    const point = await homeScreenPoint(page, homeId!);
+    expect(homeRef).not.toBeNull();
+    const point = await homeScreenPoint(page, homeRef!);
     expect(point).not.toBeNull();
     await page.mouse.click(point!.x, point!.y);
     await page.getByTestId('home-address').waitFor();

@@ -60,8 +60,8 @@ describe('builder comparison', () => {
     ]);
     await waitForMapIdle(page, 'insight');
     const drawn = await page.evaluate(() => {
-      const map = (window as unknown as { __tractwiseMap: { queryRenderedFeatures(o: { layers: string[] }): { properties: Record<string, unknown> }[] } }).__tractwiseMap;
-      return map.queryRenderedFeatures({ layers: ['homes-outcome'] }).map((f) => ({ id: String(f.properties.id), year: Number(f.properties.year) }));
+      const map = (window as unknown as { __tractwiseMap: { queryRenderedFeatures(o: { layers: string[] }): { id?: number; properties: Record<string, unknown> }[] } }).__tractwiseMap;
+      return map.queryRenderedFeatures({ layers: ['homes-outcome'] }).map((f) => ({ id: Number(f.id), year: Number(f.properties.year) }));
     });
     const ids = new Set(drawn.map((d) => d.id));
     expect(ids.size).toBe(row.homes);

@@ -41,7 +41,7 @@ describe('the map', () => {
     await waitForMapIdle(page, 'map');
 
     // Tap the home where MapLibre drew it (the fly-to left it in view).
-    const point = await homeScreenPoint(page, target.id);
+    const point = await homeScreenPoint(page, target.ref);
     expect(point).not.toBeNull();
     await page.mouse.click(point!.x, point!.y);
     await page.getByTestId('home-address').waitFor();

@@ -13,11 +13,11 @@ type MapHandle = {
   loaded(): boolean;
   areTilesLoaded(): boolean;
   isMoving(): boolean;
-  queryRenderedFeatures(o: { layers: string[] }): { properties: Record<string, unknown> }[];
+  queryRenderedFeatures(o: { layers: string[] }): { id?: number; properties: Record<string, unknown> }[];
 };
 
 /** The outcome property of the home's symbol as MapLibre drew it from the homes tiles (null when not drawn). */
-const drawnOutcome = async (page: Page, homeId: string) => (await homeScreenPoint(page, homeId))?.outcome ?? null;
+const drawnOutcome = async (page: Page, homeRef: number) => (await homeScreenPoint(page, homeRef))?.outcome ?? null;
 
 /** A small real JPEG, as a phone camera would give. */
 async function cameraPhoto(): Promise<Buffer> {
@@ -32,9 +32,9 @@ async function cameraPhoto(): Promise<Buffer> {
   return sharp(pixels, { raw: { width, height, channels: 3 } }).jpeg({ quality: 80 }).toBuffer();
 }
 
-async function notVisitedHome(page: Page, skip: string[] = []): Promise<{ id: string; address: string }> {
+async function notVisitedHome(page: Page, skip: string[] = []): Promise<{ id: string; ref: number; address: string }> {
   const list = await page.evaluate(() => fetch('/api/homes?outcome=not_visited&limit=20').then((r) => r.json()));
-  const home = (list.homes as { id: string; address: string }[]).find((h) => !skip.includes(h.id));
+  const home = (list.homes as { id: string; ref: number; address: string }[]).find((h) => !skip.includes(h.id));
   if (!home) throw new Error('the demo company has no home left that was never visited');
   return home;
 }
@@ -66,7 +66,7 @@ describe('recording a visit on a phone', () => {
     await search.press('Enter');
     await expect(page.getByTestId('home-address').textContent()).resolves.toBe(home.address);
     await waitForMapIdle(page, 'visits');
-    expect(await drawnOutcome(page, home.id)).toBe('not_visited');
+    expect(await drawnOutcome(page, home.ref)).toBe('not_visited');
 
     await page.getByRole('link', { name: 'Record a visit' }).click();
     await page.waitForURL(new RegExp(`/homes/${home.id}/visit$`));
@@ -134,15 +134,15 @@ describe('recording a visit on a phone', () => {
 
     // The map's homes tiles were asked for again: the home's symbol now carries its new outcome.
     await page.waitForFunction(
-      (id) => {
+      (ref) => {
         const map = (window as unknown as { __tractwiseMap?: MapHandle }).__tractwiseMap;
-        const hit = map?.queryRenderedFeatures({ layers: ['homes-outcome'] }).find((f) => f.properties.id === id);
+        const hit = map?.queryRenderedFeatures({ layers: ['homes-outcome'] }).find((f) => f.id === ref);
         return Boolean(hit && hit.properties.outcome !== 'not_visited');
       },
-      home.id,
+      home.ref,
       { timeout: 30_000, polling: 250 },
     );
-    expect(await drawnOutcome(page, home.id)).toBe(detail.home.outcome);
+    expect(await drawnOutcome(page, home.ref)).toBe(detail.home.outcome);
     expect(detail.home.outcome).toBe('awaiting_test');
     // The panel refreshed too, and shows the photo's thumbnail.
     await page.getByRole('list', { name: 'Photos' }).getByRole('img').waitFor();

@@ -8,6 +8,7 @@ let app: TestApp;
 const clients = new Map<Role, ApiClient>();
 let admin: ApiClient;
 let homeId: string;
+let homeRef: number;
 let communityId: string;
 let builderId: string;
 let userId: string;
@@ -25,7 +26,7 @@ beforeAll(async () => {
     clients.set(role, c);
   }
   admin = clients.get('admin')!;
-  homeId = (await admin.get('/api/homes?limit=1')).body.homes[0].id;
+  ({ id: homeId, ref: homeRef } = (await admin.get('/api/homes?limit=1')).body.homes[0]);
   communityId = (await admin.get('/api/communities')).body.communities[0].id;
   builderId = (await admin.get('/api/builders')).body.builders[0].id;
   userId = (await admin.get('/api/users')).body.users.find((u: { role: string }) => u.role === 'sales').id;
@@ -92,6 +93,7 @@ const cases: RouteCase[] = [
   },
   { route: 'GET /api/homes', allowed: ALL, ok: 200, send: (c) => c.get('/api/homes') },
   { route: 'GET /api/homes/:id', allowed: ALL, ok: 200, send: (c) => c.get(`/api/homes/${homeId}`) },
+  { route: 'GET /api/homes/ref/:ref', allowed: ALL, ok: 200, send: (c) => c.get(`/api/homes/ref/${homeRef}`) },
   {
     route: 'POST /api/homes',
     allowed: EDITORS,
@@ -203,6 +205,7 @@ describe('tenant isolation', () => {
     const other = new ApiClient(app.url);
     await other.signIn(otherCompanyUser('admin'));
     expect((await other.get(`/api/homes/${homeId}`)).status).toBe(404);
+    expect((await other.get(`/api/homes/ref/${homeRef}`)).status).toBe(404);
     expect((await other.patch(`/api/homes/${homeId}`, { suctionPointNote: 'x' })).status).toBe(404);
     expect((await other.delete(`/api/homes/${homeId}`)).status).toBe(404);
     expect((await other.get(`/api/builders/${builderId}`)).status).toBe(404);

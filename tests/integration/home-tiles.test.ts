@@ -7,7 +7,7 @@ import { HOMES_DETAIL_MIN_ZOOM } from '../../shared/schemas/map.js';
 
 let app: TestApp;
 let tech: ApiClient;
-let home: { id: string; lon: number; lat: number; yearBuilt: number | null };
+let home: { id: string; ref: number; lon: number; lat: number; yearBuilt: number | null };
 
 beforeAll(async () => {
   app = await startTestApp();
@@ -63,12 +63,19 @@ describe('homes vector tiles', () => {
     expect(layer.extent).toBe(4096); // MVT spec 2.1 §4.2 default extent
     await expectSameHomes(layer, z, x, y);
     expect(layer.length).toBeGreaterThan(0);
-    const ids = Array.from({ length: layer.length }, (_, i) => layer.feature(i).properties.id);
-    expect(ids).toContain(home.id);
-    const f = layer.feature(ids.indexOf(home.id));
+    // The feature id (MVT spec 2.1 §4.2, an unsigned integer) is the home's short number.
+    const ids = Array.from({ length: layer.length }, (_, i) => layer.feature(i).id);
+    expect(new Set(ids).size).toBe(ids.length);
+    expect(ids).toContain(home.ref);
+    const f = layer.feature(ids.indexOf(home.ref));
     expect(f.type).toBe(1); // MVT spec 2.1 §4.3.4: 1 = POINT
     expect(OUTCOMES).toContain(f.properties.outcome);
     expect(f.properties).toHaveProperty('year');
+    expect(f.properties).not.toHaveProperty('id');
+    // A tap names the home by that number: it opens the same home.
+    const opened = await tech.get(`/api/homes/ref/${home.ref}`);
+    expect(opened.status).toBe(200);
+    expect(opened.body.home.id).toBe(home.id);
   });
 
   it('filters by outcome exactly as a direct SQL count does', async () => {
@@ -87,7 +94,7 @@ describe('homes vector tiles', () => {
     for (let i = 0; i < layer.length; i++) {
       const f = layer.feature(i);
       const [p] = f.loadGeometry()[0];
-      expect(f.properties.id).toBeUndefined();
+      expect(f.id).toBeUndefined();
       expect(OUTCOMES).toContain(f.properties.outcome);
       expect(Number(f.properties.homes)).toBeGreaterThan(0);
       cells.add(`${p.x},${p.y}`);
@@ -103,12 +110,12 @@ describe('homes vector tiles', () => {
   it('shows a change to a home on the next request (the tile cache keys on the homes version)', async () => {
     const { z, x, y } = tileFor(home.lon, home.lat, 15);
     const before = decodeTile((await fetchTile(tech, `/tiles/homes/${z}/${x}/${y}.pbf`)).body).layers.homes;
-    const idsBefore = Array.from({ length: before.length }, (_, i) => before.feature(i).properties.id);
-    expect(idsBefore).toContain(home.id);
+    const idsBefore = Array.from({ length: before.length }, (_, i) => before.feature(i).id);
+    expect(idsBefore).toContain(home.ref);
     await app.database.pool.query(`update homes set year_built = 1901 where id = $1`, [home.id]);
     try {
       const after = decodeTile((await fetchTile(tech, `/tiles/homes/${z}/${x}/${y}.pbf`)).body).layers.homes;
-      const f = Array.from({ length: after.length }, (_, i) => after.feature(i)).find((g) => g.properties.id === home.id)!;
+      const f = Array.from({ length: after.length }, (_, i) => after.feature(i)).find((g) => g.id === home.ref)!;
       expect(f.properties.year).toBe(1901);
     } finally {
       await app.database.pool.query(`update homes set year_built = $2 where id = $1`, [home.id, home.yearBuilt ?? null]);
@@ -117,7 +124,7 @@ describe('homes vector tiles', () => {
 
   it('carries the last manometer vacuum in in. WC and the last post-mitigation level in pCi/L', async () => {
     const { rows: [measured] } = await app.database.pool.query(
-      `select h.id::text as id, ST_X(h.location) as lon, ST_Y(h.location) as lat, h.last_vacuum_pa, h.last_post_bq_m3
+      `select h.ref::int as ref, ST_X(h.location) as lon, ST_Y(h.location) as lat, h.last_vacuum_pa, h.last_post_bq_m3
        from homes h join users u on u.company_id = h.company_id
        where u.email = $1 and h.last_vacuum_pa is not null and h.last_post_bq_m3 is not null limit 1`,
       [demoUser('technician')],
@@ -125,7 +132,7 @@ describe('homes vector tiles', () => {
     expect(measured).toBeDefined();
     const { z, x, y } = tileFor(measured.lon, measured.lat, 16);
     const layer = decodeTile((await fetchTile(tech, `/tiles/homes/${z}/${x}/${y}.pbf`)).body).layers.homes;
-    const f = Array.from({ length: layer.length }, (_, i) => layer.feature(i)).find((g) => g.properties.id === measured.id)!;
+    const f = Array.from({ length: layer.length }, (_, i) => layer.feature(i)).find((g) => g.id === measured.ref)!;
     // 1 in. WC = 249.0889 Pa (NIST SP 811 B.8); 1 pCi/L = 37 Bq/m³ (1 Ci = 3.7e10 Bq, curie definition).
     expect(f.properties.vacuum_in_wc).toBeCloseTo(Math.round((measured.last_vacuum_pa / 249.0889) * 100) / 100, 9);
     expect(f.properties.post_pci_l).toBeCloseTo(Math.round((measured.last_post_bq_m3 / 37) * 10) / 10, 9);
@@ -142,8 +149,10 @@ describe('homes vector tiles', () => {
     await other.signIn(otherCompanyUser('admin'));
     const { z, x, y } = tileFor(home.lon, home.lat, 15);
     const layer = decodeTile((await fetchTile(other, `/tiles/homes/${z}/${x}/${y}.pbf`)).body).layers.homes;
-    const ids = layer ? Array.from({ length: layer.length }, (_, i) => layer.feature(i).properties.id) : [];
-    expect(ids).not.toContain(home.id);
+    const ids = layer ? Array.from({ length: layer.length }, (_, i) => layer.feature(i).id) : [];
+    expect(ids).not.toContain(home.ref);
+    // Nor opens one by its number.
+    expect((await other.get(`/api/homes/ref/${home.ref}`)).status).toBe(404);
   });
 
   it.each([
@@ -157,6 +166,14 @@ describe('homes vector tiles', () => {
     expect(res.status).toBe(400);
     const body = JSON.parse(Buffer.from(res.body).toString());
     expect(body.error.fields.map((f: { field: string }) => f.field)).toContain(field);
+  });
+
+  it('refuses a home number that is not a positive integer, naming ref', async () => {
+    for (const bad of ['0', '-3', '1.5', 'abc']) {
+      const res = await tech.get(`/api/homes/ref/${bad}`);
+      expect(res.status).toBe(400);
+      expect(res.body.error.fields.map((f: { field: string }) => f.field)).toContain('ref');
+    }
   });
 
   it('needs a signed-in user', async () => {

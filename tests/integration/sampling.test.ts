@@ -97,10 +97,16 @@ describe('sampling plans', () => {
     const { z, x, y } = tileFor(target.lon, target.lat, 16);
     const res = await fetch(`${app.url}/tiles/homes/${z}/${x}/${y}.pbf`, { headers: { Cookie: tech.cookie } });
     const layer = decodeTile(new Uint8Array(await res.arrayBuffer())).layers.homes;
-    const features = Array.from({ length: layer.length }, (_, i) => layer.feature(i).properties);
-    expect(features.find((f) => f.id === target.id)?.planned).toBe(true);
-    const plannedIds = new Set(detail.homes.map((h) => h.id));
-    for (const f of features) expect(f.planned).toBe(plannedIds.has(String(f.id)) && f.outcome === 'not_visited');
+    // Tile features carry the home's short number (ref) as their id.
+    const features = Array.from({ length: layer.length }, (_, i) => {
+      const f = layer.feature(i);
+      return { ref: f.id, planned: f.properties.planned, outcome: f.properties.outcome };
+    });
+    const { rows: planRefs } = await app.database.pool.query(`select ref::int as ref, id::text as id from homes where id = any($1::uuid[])`, [detail.homes.map((h) => h.id)]);
+    const targetRef = planRefs.find((r) => r.id === target.id)!.ref;
+    expect(features.find((f) => f.ref === targetRef)?.planned).toBe(true);
+    const plannedRefs = new Set(planRefs.map((r) => r.ref));
+    for (const f of features) expect(f.planned).toBe(plannedRefs.has(f.ref) && f.outcome === 'not_visited');
   });
 
   it('refuses bad input with the field named, other roles, and other companies', async () => {

@@ -59,14 +59,17 @@ export async function waitForMapIdle(page: Page, name = 'map') {
   await page.waitForTimeout(300);
 }
 
-/** Where MapLibre drew a home (page coordinates), from the rendered features of the homes layer; null if not in view. */
-export async function homeScreenPoint(page: Page, homeId: string) {
-  return page.evaluate((id) => {
-    const map = (window as unknown as { __tractwiseMap: { getCanvas(): HTMLCanvasElement; queryRenderedFeatures(o: { layers: string[] }): { properties: Record<string, unknown>; geometry: { coordinates: [number, number] } }[]; project(c: [number, number]): { x: number; y: number } } }).__tractwiseMap;
-    const hit = map.queryRenderedFeatures({ layers: ['homes-outcome'] }).find((f) => f.properties.id === id);
+/**
+ * Where MapLibre drew a home (page coordinates), from the rendered features of the homes layer; null if
+ * not in view. Homes tiles carry the home's short number (ref) as the feature id.
+ */
+export async function homeScreenPoint(page: Page, homeRef: number) {
+  return page.evaluate((ref) => {
+    const map = (window as unknown as { __tractwiseMap: { getCanvas(): HTMLCanvasElement; queryRenderedFeatures(o: { layers: string[] }): { id?: number; properties: Record<string, unknown>; geometry: { coordinates: [number, number] } }[]; project(c: [number, number]): { x: number; y: number } } }).__tractwiseMap;
+    const hit = map.queryRenderedFeatures({ layers: ['homes-outcome'] }).find((f) => f.id === ref);
     if (!hit) return null;
     const rect = map.getCanvas().getBoundingClientRect();
     const p = map.project(hit.geometry.coordinates);
     return { x: rect.left + p.x, y: rect.top + p.y, outcome: String(hit.properties.outcome ?? '') };
-  }, homeId);
+  }, homeRef);
 }

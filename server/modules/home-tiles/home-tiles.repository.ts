@@ -17,71 +17,91 @@ export async function homesVersion(db: DbOrTx, companyId: string): Promise<numbe
   return Number(result.rows[0]?.v ?? 0);
 }
 
+/** Tile coordinates per tile side (the MVT default) and the margin kept around a tile, in the same units. */
+const EXTENT = 4096;
+const BUFFER = 64;
+
+/** `case outcome when 'needs_rework' then 1 …`: an outcome's rank in OUTCOME_PRIORITY (constants only). */
+const OUTCOME_RANK = sql.raw(`case h.outcome ${OUTCOME_PRIORITY.map((o, i) => `when '${o}' then ${i + 1}`).join(' ')} end`);
+const OUTCOME_BY_RANK = sql.raw(`array[${OUTCOME_PRIORITY.map((o) => `'${o}'`).join(',')}]::text[]`);
+
 /**
- * One Mapbox Vector Tile (layer `homes`) of a company's homes, built by PostGIS: the GiST index on
- * location picks the homes in the tile's envelope, ST_AsMVTGeom clips and quantises them to the 4096
- * grid, ST_AsMVT encodes the protobuf.
+ * One Mapbox Vector Tile (layer `homes`) of a company's homes, encoded by PostGIS ST_AsMVT.
  *
- * From HOMES_DETAIL_MIN_ZOOM up every home is its own feature (with its id, so a tap opens it). Below
- * that a tile can hold tens of thousands of homes too close together to tap: they are drawn as one
- * feature per 8-px cell, carrying the number of homes and the outcome most in need of attention.
+ * Homes keep their Web Mercator metres (merc_x, merc_y, generated from location), so a tile is a
+ * range scan of the (company, merc_x, merc_y) index and plain arithmetic to the 4096 grid: no home
+ * is projected or clipped at request time.
+ *
+ * From HOMES_DETAIL_MIN_ZOOM up every home is its own feature, with the home's short number (ref)
+ * as the feature id so a tap can open it. Below that a tile can hold tens of thousands of homes too
+ * close together to tap: they are drawn as one feature per 8-px cell, carrying the number of homes
+ * and the outcome most in need of attention.
  */
 export async function homesTile(db: DbOrTx, companyId: string, z: number, x: number, y: number, filter: MapFilter): Promise<Buffer> {
+  const query = homesTileQuery(companyId, z, x, y, filter);
+  // One tile is a few thousand rows: starting parallel workers costs more than it saves, and the
+  // cells of a dense overview tile must fit one hash table in memory.
+  return db.transaction(async (tx) => {
+    await tx.execute(sql`select set_config('max_parallel_workers_per_gather', '0', true), set_config('work_mem', '32MB', true)`);
+    const result = await tx.execute<{ mvt: Buffer }>(query);
+    return result.rows[0]?.mvt ?? Buffer.alloc(0);
+  });
+}
+
+/** The statement behind homesTile (exported for EXPLAIN when tuning). */
+export function homesTileQuery(companyId: string, z: number, x: number, y: number, filter: MapFilter): SQL {
   const conditions: SQL[] = [sql`h.company_id = ${companyId}`];
   if (filter.builderId) conditions.push(sql`h.builder_id = ${filter.builderId}`);
   if (filter.communityId) conditions.push(sql`h.community_id = ${filter.communityId}`);
   if (filter.yearFrom !== undefined) conditions.push(sql`h.year_built >= ${filter.yearFrom}`);
   if (filter.yearTo !== undefined) conditions.push(sql`h.year_built <= ${filter.yearTo}`);
   if (filter.outcome?.length) conditions.push(sql`h.outcome in ${filter.outcome}`);
+  // The tile's west and north edges and the size of one tile unit, in Web Mercator metres; the homes
+  // within BUFFER units around the tile are kept so symbols on a tile edge are drawn whole.
   const homesInTile = sql`
-    with latest_plans as (
-      -- The latest sampling plan of each community; its unvisited homes are drawn as "planned".
-      select distinct on (community_id) id from sampling_plans
-      where company_id = ${companyId} order by community_id, created_at desc, id desc
+    with tile as (
+      select ST_XMin(e) as x0, ST_YMax(e) as y0, (ST_XMax(e) - ST_XMin(e)) / ${EXTENT} as unit from ST_TileEnvelope(${z}, ${x}, ${y}) e
     ),
-    bounds as (select ST_TileEnvelope(${z}, ${x}, ${y}) as merc, ST_Transform(ST_TileEnvelope(${z}, ${x}, ${y}, margin => 0.02), 4326) as geo),
-    points as materialized (
-      select
-        ST_AsMVTGeom(ST_Transform(h.location, 3857), bounds.merc, 4096, 64, true) as geom,
-        h.id, h.outcome, h.year_built, h.last_vacuum_pa, h.last_post_bq_m3, h.rework_flag,
-        (h.outcome = 'not_visited' and exists (
-          select 1 from sampling_plan_homes sph where sph.home_id = h.id and sph.plan_id in (select id from latest_plans))) as planned
-      from homes h, bounds
-      where h.location && bounds.geo and ${sql.join(conditions, sql` and `)}
+    planned_homes as (
+      -- The homes in the latest sampling plan of each community; unvisited, they are drawn as "planned".
+      select home_id from sampling_plan_homes where plan_id in (
+        select distinct on (community_id) id from sampling_plans
+        where company_id = ${companyId} order by community_id, created_at desc, id desc)
+    ),
+    points as (
+      select (h.merc_x - tile.x0) / tile.unit as tx, (tile.y0 - h.merc_y) / tile.unit as ty,
+        h.ref, h.outcome, h.year_built, h.last_vacuum_pa, h.last_post_bq_m3, h.rework_flag,
+        (h.outcome = 'not_visited' and h.id in (select home_id from planned_homes)) as planned, ${OUTCOME_RANK} as outcome_rank
+      from homes h, tile
+      where ${sql.join(conditions, sql` and `)}
+        and h.merc_x >= tile.x0 - ${BUFFER} * tile.unit and h.merc_x <= tile.x0 + ${EXTENT + BUFFER} * tile.unit
+        and h.merc_y <= tile.y0 + ${BUFFER} * tile.unit and h.merc_y >= tile.y0 - ${EXTENT + BUFFER} * tile.unit
     )`;
-  const query =
-    z >= HOMES_DETAIL_MIN_ZOOM
+  // Values are rounded half up in float8 (they are never negative): numeric rounding costs about a
+  // quarter of the query on a dense tile, and float8 round() breaks ties to even (3.85 would show as 3.8).
+  return z >= HOMES_DETAIL_MIN_ZOOM
       ? sql`${homesInTile}
-    select ST_AsMVT(t.*, 'homes', 4096, 'geom') as mvt from (
-      -- Rounded half up in float8 (values are never negative): numeric rounding costs about a quarter of
-      -- the query on a dense tile, and float8 round() breaks ties to even (3.85 would show as 3.8).
-      select geom, id::text as id, outcome, year_built as year,
+    select ST_AsMVT(t.*, 'homes', ${EXTENT}, 'geom', 'ref') as mvt from (
+      select ST_MakePoint(floor(tx + 0.5), floor(ty + 0.5)) as geom, ref, outcome, year_built as year,
         floor(last_vacuum_pa / ${IN_WC_TO_PA} * 100 + 0.5) / 100 as vacuum_in_wc,
         floor(last_post_bq_m3 / ${PCI_PER_L_TO_BQ_M3} * 10 + 0.5) / 10 as post_pci_l,
         rework_flag as rework, planned
-      from points where geom is not null
+      from points
     ) t`
       : sql`${homesInTile}
-    select ST_AsMVT(t.*, 'homes', 4096, 'geom') as mvt from (
+    select ST_AsMVT(t.*, 'homes', ${EXTENT}, 'geom') as mvt from (
       select
         ST_MakePoint(cx * ${OVERVIEW_CELL_UNITS} + ${OVERVIEW_CELL_UNITS / 2}, cy * ${OVERVIEW_CELL_UNITS} + ${OVERVIEW_CELL_UNITS / 2}) as geom,
         count(*)::int as homes,
-        (array_agg(outcome order by array_position(${sql.raw(`array[${OUTCOME_PRIORITY.map((o) => `'${o}'`).join(',')}]`)}::text[], outcome)))[1] as outcome,
+        (${OUTCOME_BY_RANK})[min(outcome_rank)] as outcome,
         min(year_built) as year,
         floor(avg(last_vacuum_pa) / ${IN_WC_TO_PA} * 100 + 0.5) / 100 as vacuum_in_wc,
         floor(max(last_post_bq_m3) / ${PCI_PER_L_TO_BQ_M3} * 10 + 0.5) / 10 as post_pci_l,
         bool_or(rework_flag) as rework,
         bool_or(planned) as planned
       from (
-        select floor(ST_X(geom) / ${OVERVIEW_CELL_UNITS})::int as cx, floor(ST_Y(geom) / ${OVERVIEW_CELL_UNITS})::int as cy, *
-        from points where geom is not null
+        select floor(tx / ${OVERVIEW_CELL_UNITS})::int as cx, floor(ty / ${OVERVIEW_CELL_UNITS})::int as cy, * from points
       ) cells
       group by cx, cy
     ) t`;
-  // One tile is a few thousand rows: starting parallel workers costs more than it saves.
-  return db.transaction(async (tx) => {
-    await tx.execute(sql`set local max_parallel_workers_per_gather = 0`);
-    const result = await tx.execute<{ mvt: Buffer }>(query);
-    return result.rows[0]?.mvt ?? Buffer.alloc(0);
-  });
 }

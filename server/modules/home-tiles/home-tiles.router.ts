@@ -12,7 +12,7 @@ export function homeTilesRouter(db: Db): Router {
   router.get('/:z/:x/:y.pbf', validate({ params: TileParams, query: MapFilter }), async (req, res) => {
     const user = currentUser(req);
     const { z, x, y } = req.params as unknown as { z: number; x: number; y: number };
-    const tile = await homeTiles.tile(user.companyId, z, x, y, req.query as unknown as MapFilter);
+    const { data, buildMs } = await homeTiles.tile(user.companyId, z, x, y, req.query as unknown as MapFilter);
     res.set({
       'Content-Type': 'application/x-protobuf',
       // Private: the tile carries one company's customer data. no-cache: the browser revalidates
@@ -20,8 +20,10 @@ export function homeTilesRouter(db: Db): Router {
       // test just changed shows on the very next tile request. The server-side cache is keyed on
       // the company's homes version (see home-tiles.service.ts), so it is never stale either.
       'Cache-Control': 'private, no-cache',
+      // W3C Server Timing: whether the tile came from the cache or was built, and how long that took.
+      'Server-Timing': buildMs == null ? 'tile;desc="cached"' : `tile;desc="built";dur=${buildMs.toFixed(1)}`,
     });
-    res.send(tile);
+    res.send(data);
   });
   return router;
 }

@@ -16,19 +16,21 @@ export function createHomeTiles(db: Db, options: { maxBytes?: number } = {}) {
   let hits = 0;
   let misses = 0;
 
-  async function tile(companyId: string, z: number, x: number, y: number, filter: MapFilter): Promise<Buffer> {
-    if (z < HOMES_MIN_ZOOM) return Buffer.alloc(0);
+  /** The tile, and how long building it took (null when it came from the cache). */
+  async function tile(companyId: string, z: number, x: number, y: number, filter: MapFilter): Promise<{ data: Buffer; buildMs: number | null }> {
+    if (z < HOMES_MIN_ZOOM) return { data: Buffer.alloc(0), buildMs: null };
     const version = await repo.homesVersion(db, companyId);
     const key = [companyId, version, z, x, y, filter.builderId ?? '', filter.communityId ?? '', filter.yearFrom ?? '', filter.yearTo ?? '', (filter.outcome ?? []).join(',')].join('|');
     const cached = cache.get(key);
     if (cached) {
       hits++;
-      return cached;
+      return { data: cached, buildMs: null };
     }
     misses++;
+    const started = performance.now();
     const built = await repo.homesTile(db, companyId, z, x, y, filter);
     cache.set(key, built);
-    return built;
+    return { data: built, buildMs: performance.now() - started };
   }
 
   return { tile, stats: () => ({ hits, misses, entries: cache.size, bytes: cache.calculatedSize }) };

@@ -17,6 +17,7 @@ export const streetOrder = [homes.street, sql`length(${homes.number})`, homes.nu
 
 export const homeColumns = {
   ...homePlaceColumns,
+  ref: homes.ref,
   city: homes.city,
   state: homes.state,
   zip: homes.zip,
@@ -48,6 +49,12 @@ function baseQuery(db: DbOrTx) {
 export async function findHome(db: DbOrTx, companyId: string, id: string) {
   const [row] = await baseQuery(db).where(and(eq(homes.companyId, companyId), eq(homes.id, id)));
   return row;
+}
+
+/** The id of the company's home with this short number, if there is one. */
+export async function findHomeIdByRef(db: DbOrTx, companyId: string, ref: number): Promise<string | undefined> {
+  const [row] = await db.select({ id: homes.id }).from(homes).where(and(eq(homes.companyId, companyId), eq(homes.ref, ref)));
+  return row?.id;
 }
 
 export async function listHomes(

@@ -2,7 +2,7 @@ import { Router } from 'express';
 import type { Db } from '../../db/client.js';
 import { IdParams } from '../../../shared/schemas/common.js';
 import { SURVEY_EDITOR_ROLES } from '../../../shared/schemas/enums.js';
-import { HomeBody, HomeListQuery, UpdateHomeBody } from '../../../shared/schemas/homes.js';
+import { HomeBody, HomeListQuery, HomeRefParams, UpdateHomeBody } from '../../../shared/schemas/homes.js';
 import { currentUser, requireAuth, requireRole } from '../../middleware/auth.js';
 import { validate } from '../../middleware/validate.js';
 import * as service from './homes.service.js';
@@ -12,6 +12,9 @@ export function homesRouter(db: Db): Router {
   const editors = requireRole(...SURVEY_EDITOR_ROLES);
   router.get('/', requireAuth, validate({ query: HomeListQuery }), async (req, res) => {
     res.json(await service.listHomes(db, currentUser(req), req.query as never));
+  });
+  router.get('/ref/:ref', requireAuth, validate({ params: HomeRefParams }), async (req, res) => {
+    res.json(await service.getHomeDetailByRef(db, currentUser(req), (req.params as unknown as { ref: number }).ref));
   });
   router.get('/:id', requireAuth, validate({ params: IdParams }), async (req, res) => {
     res.json(await service.getHomeDetail(db, currentUser(req), req.params.id as string));

@@ -44,6 +44,13 @@ export async function getHomeDetail(db: Db, viewer: Viewer, id: string) {
   return { home, visits, tests, planned };
 }
 
+/** A home's detail by its short number: what a tap on the map asks for. */
+export async function getHomeDetailByRef(db: Db, viewer: Viewer, ref: number) {
+  const id = await repo.findHomeIdByRef(db, viewer.companyId, ref);
+  if (!id) throw AppError.notFound('Home');
+  return getHomeDetail(db, viewer, id);
+}
+
 /**
  * Recomputes a home's derived outcome and summary from all its visits and tests, with the
  * company's action level, and stores it on the home. Call inside the transaction that changed

@@ -333,8 +333,9 @@ export async function undoBlockers(db: Queryable, companyId: string, batchId: st
   return rows.filter((r) => r.n > 0);
 }
 
-/** Every column of a home except its identity: what undo writes back. */
+/** Every column of a home except its identity and what the database derives itself: what undo writes back. */
 export const RESTORED_HOME_COLUMNS = Object.values(getTableColumns(homes))
+  .filter((c) => c.generated === undefined && c.generatedIdentity === undefined)
   .map((c) => c.name)
   .filter((n) => n !== 'id' && n !== 'company_id');
 

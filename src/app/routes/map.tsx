@@ -1,5 +1,6 @@
 import { useEffect, useMemo, useState } from 'react';
 import { MapProvider, useMap } from 'react-map-gl/maplibre';
+import { useQueryClient } from '@tanstack/react-query';
 import { Link, useNavigate, useLocation } from 'react-router-dom';
 import { bbox } from '@turf/turf';
 import type { FeatureCollection } from 'geojson';
@@ -8,12 +9,14 @@ import { MapLegend } from '@/features/map/components/map-legend';
 import { MapFiltersPanel } from '@/features/map/components/map-filters';
 import { restoredSearch, useMapState } from '@/features/map/use-map-state';
 import { HomePanel } from '@/features/homes/components/home-panel';
+import { fetchHomeByRef, useHome } from '@/features/homes/api/get-home';
 import { AddressSearch } from '@/features/homes/components/address-search';
 import { useCommunities } from '@/features/communities/api/get-communities';
 import { useBuilders } from '@/features/builders/api/get-builders';
 import { useSettings } from '@/features/settings/api/settings';
 import { PanelBoundary } from '@/components/ui/panel-boundary';
 import { EmptyState } from '@/components/ui/empty-state';
+import { ErrorNote } from '@/components/ui/error-note';
 import { useSession } from '@/features/auth/api/get-session';
 import { FIELD_ROLES } from '@/features/visits/utils/roles';
 import { useOutbox } from '@/lib/outbox';
@@ -41,6 +44,10 @@ function MapScreen() {
   const settings = useSettings();
   const maps = useMap();
   const [filtersOpen, setFiltersOpen] = useState(false);
+  const queryClient = useQueryClient();
+  const selectedHome = useHome(selectedHomeId);
+  // A tap that could not open its home (offline, or the home was just deleted).
+  const [tapError, setTapError] = useState<unknown>(null);
 
   const communityFc = useMemo<FeatureCollection>(
     () => ({
@@ -79,12 +86,21 @@ function MapScreen() {
             filters={filters}
             styleMode={styleMode}
             actionLevelPciL={bqM3ToPciL(actionLevelBqM3)}
-            selectedHomeId={selectedHomeId}
+            selectedHomeRef={selectedHome.data?.home.ref ?? null}
             communities={communityFc}
             initialCenter={center}
-            onSelectHome={(id) => update({ home: id })}
+            onSelectHome={(ref) => {
+              setTapError(null);
+              if (ref == null) return update({ home: undefined });
+              fetchHomeByRef(queryClient, ref).then((detail) => update({ home: detail.home.id }), setTapError);
+            }}
           />
         </PanelBoundary>
+      )}
+      {tapError != null && (
+        <div className="absolute inset-x-4 bottom-20 z-20 mx-auto max-w-md">
+          <ErrorNote error={tapError} />
+        </div>
       )}
       {communities.data && communities.data.communities.length === 0 && (
         <div className="absolute inset-x-4 top-20 z-10 mx-auto max-w-md">

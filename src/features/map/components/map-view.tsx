@@ -35,10 +35,12 @@ export interface MapViewProps {
   filters: MapFilters;
   styleMode: MapStyleMode;
   actionLevelPciL: number;
-  selectedHomeId: string | null;
+  /** The selected home's short number (its feature id in the homes tiles), once known. */
+  selectedHomeRef: number | null;
   communities: FeatureCollection;
   initialCenter: [number, number];
-  onSelectHome(id: string | null): void;
+  /** A tap on a home names it by its short number; a tap elsewhere gives null. */
+  onSelectHome(ref: number | null): void;
 }
 
 type MaplibreMap = ReturnType<MapRef['getMap']>;
@@ -61,7 +63,7 @@ function prepareMap(map: MaplibreMap) {
   (window as unknown as { __tractwiseMap?: unknown }).__tractwiseMap = map;
 }
 
-export function MapView({ filters, styleMode, actionLevelPciL, selectedHomeId, communities, initialCenter, onSelectHome }: MapViewProps) {
+export function MapView({ filters, styleMode, actionLevelPciL, selectedHomeRef, communities, initialCenter, onSelectHome }: MapViewProps) {
   const mapRef = useRef<MapRef>(null);
   const initialView = useMemo(() => loadCamera() ?? { longitude: initialCenter[0], latitude: initialCenter[1], zoom: 14 }, [initialCenter]);
   // The version goes up when visits or tests reach the server, so outcome symbols change without a reload.
@@ -75,13 +77,13 @@ export function MapView({ filters, styleMode, actionLevelPciL, selectedHomeId, c
   const onClick = useCallback(
     (e: MapLayerMouseEvent) => {
       const feature = e.features?.[0];
-      const id = feature?.properties?.id;
-      if (feature && id == null) {
+      const ref = feature?.id;
+      if (feature && ref == null) {
         // An overview mark (several homes in a few pixels, below HOMES_DETAIL_MIN_ZOOM): zoom in to them.
         e.target.easeTo({ center: e.lngLat, zoom: Math.max(HOMES_DETAIL_MIN_ZOOM + 1, e.target.getZoom() + 2) });
         return;
       }
-      onSelectHome(feature ? String(id) : null);
+      onSelectHome(feature ? Number(ref) : null);
     },
     [onSelectHome],
   );
@@ -117,7 +119,7 @@ export function MapView({ filters, styleMode, actionLevelPciL, selectedHomeId, c
         {styleMode === 'vacuum' && <Layer {...vacuumLayer} />}
         {styleMode === 'post' && <Layer {...postLayer(actionLevelPciL)} />}
         {styleMode === 'rework' && <Layer {...reworkLayer} />}
-        <Layer {...selectedLayer(selectedHomeId)} />
+        <Layer {...selectedLayer(selectedHomeRef)} />
       </Source>
     </Map>
   );

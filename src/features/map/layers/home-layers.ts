@@ -95,12 +95,13 @@ export const contextLayer: LayerProps = {
   paint: { 'circle-radius': ['interpolate', ['linear'], ['zoom'], 12, 1.2, 16, 3], 'circle-color': '#8A929C', 'circle-opacity': 0.5 },
 };
 
-export const selectedLayer = (homeId: string | null): LayerProps => ({
+/** A ring around the selected home, found by its short number (the tile's feature id). */
+export const selectedLayer = (homeRef: number | null): LayerProps => ({
   id: 'homes-selected',
   type: 'circle',
   source: HOMES_SOURCE,
   'source-layer': HOMES_SOURCE_LAYER,
-  filter: ['==', ['get', 'id'], homeId ?? ''] as never,
+  filter: ['==', ['id'], homeRef ?? -1] as never,
   paint: { 'circle-radius': 14, 'circle-color': 'rgba(0,0,0,0)', 'circle-stroke-color': '#0F6E74', 'circle-stroke-width': 3 },
 });
 

@@ -22,7 +22,8 @@ await database.pool.query(
    from generate_series(1, $4) g`,
   [company.id, company.lon, company.lat, HOMES],
 );
-await database.pool.query('analyze homes');
+// Autovacuum visits tables after a large insert (autovacuum_vacuum_insert_threshold); do it now, as it would.
+await database.pool.query('vacuum analyze');
 const { rows: [{ n }] } = await database.pool.query('select count(*)::int as n from homes');
 process.stdout.write(`inserted ${HOMES} synthetic homes in ${Date.now() - started} ms (${n} homes in all)\n`);
 const { rows: [admin] } = await database.pool.query(`select email from users where company_id = $1 and role = 'admin'`, [company.id]);
@@ -68,11 +69,16 @@ try {
     const builds: number[] = [];
     const sizes: number[] = [];
     const order = tiles.map((_, i) => tiles[(i * 7919) % tiles.length]);
-    for (const t of order.slice(0, REQUESTS_PER_ZOOM)) {
-      const r = await time(`${base}/tiles/homes/${z}/${t.x}/${t.y}.pbf`, { Cookie: cookie });
-      cold.push(r.ms);
-      if (r.buildMs != null) builds.push(r.buildMs);
-      sizes.push(r.bytes);
+    // Where the zoom has fewer tiles than requests, the data changes again and every tile is built again,
+    // until REQUESTS_PER_ZOOM builds are timed.
+    for (let round = 0; cold.length < REQUESTS_PER_ZOOM; round++) {
+      if (round > 0) await pgBump();
+      for (const t of order.slice(0, REQUESTS_PER_ZOOM - cold.length)) {
+        const r = await time(`${base}/tiles/homes/${z}/${t.x}/${t.y}.pbf`, { Cookie: cookie });
+        cold.push(r.ms);
+        if (r.buildMs != null) builds.push(r.buildMs);
+        sizes.push(r.bytes);
+      }
     }
     const warm: number[] = [];
     const built = Math.min(tiles.length, REQUESTS_PER_ZOOM);

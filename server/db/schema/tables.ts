@@ -173,7 +173,7 @@ export const homes = pgTable(
     uniqueIndex('homes_company_address_unique').on(t.companyId, t.addressKey),
     index('homes_location_gist').using('gist', t.location),
     uniqueIndex('homes_ref_unique').on(t.ref),
-    index('homes_company_merc_idx').on(t.companyId, t.mercX, t.mercY),
+    // homes_tile_idx (company_id, merc_x, merc_y) INCLUDE (…): a covering index, written in migration 0009.
     index('homes_company_community_idx').on(t.companyId, t.communityId),
     index('homes_company_builder_year_idx').on(t.companyId, t.builderId, t.yearBuilt),
     index('homes_company_outcome_idx').on(t.companyId, t.outcome),
@@ -384,6 +384,33 @@ export const columnMappings = pgTable(
     updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [primaryKey({ columns: [t.companyId, t.headerKey] })],
+);
+
+/**
+ * The map's overview marks, kept by database triggers (migration 0009): for each zoom below
+ * HOMES_DETAIL_MIN_ZOOM, one row per 64-unit cell of the tile grid (8 px on screen) that holds any of a
+ * company's homes. An unfiltered overview tile reads a few thousand of these instead of tens of
+ * thousands of homes. Cell column and row come from merc_cell() over the home's Web Mercator metres.
+ */
+export const homeCells = pgTable(
+  'home_cells',
+  {
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
+    z: integer('z').notNull(),
+    cx: integer('cx').notNull(),
+    cy: integer('cy').notNull(),
+    homes: integer('homes').notNull(),
+    /** The outcome most in need of attention, as its 1-based rank in OUTCOME_PRIORITY (outcome_attention_rank()). */
+    outcomeRank: integer('outcome_rank').notNull(),
+    yearMin: integer('year_min'),
+    vacuumSumPa: doublePrecision('vacuum_sum_pa'),
+    vacuumCount: integer('vacuum_count').notNull(),
+    postMaxBqM3: doublePrecision('post_max_bq_m3'),
+    rework: boolean('rework').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.companyId, t.z, t.cx, t.cy] })],
 );
 
 /** A plan of which homes to sample in a community (Cochran sample size, spatially spread). */

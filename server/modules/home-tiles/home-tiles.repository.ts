@@ -8,7 +8,7 @@ import { IN_WC_TO_PA, PCI_PER_L_TO_BQ_M3 } from '../../../shared/domain/units.js
 export const OVERVIEW_CELL_UNITS = 64;
 
 /** Which outcome an overview cell shows when its homes differ: the one that most needs attention. */
-const OUTCOME_PRIORITY = ['needs_rework', 'awaiting_test', 'reworked_below', 'below_action_level', 'declined', 'not_visited'] as const;
+export const OUTCOME_PRIORITY = ['needs_rework', 'awaiting_test', 'reworked_below', 'below_action_level', 'declined', 'not_visited'] as const;
 if (OUTCOME_PRIORITY.length !== OUTCOMES.length) throw new Error('OUTCOME_PRIORITY must list every outcome');
 
 /** The company's homes version: bumped by trigger with every change to its homes or sampling plans. */
@@ -20,9 +20,10 @@ export async function homesVersion(db: DbOrTx, companyId: string): Promise<numbe
 /** Tile coordinates per tile side (the MVT default) and the margin kept around a tile, in the same units. */
 const EXTENT = 4096;
 const BUFFER = 64;
+/** Overview cells per tile side. */
+const CELLS = EXTENT / OVERVIEW_CELL_UNITS;
 
-/** `case outcome when 'needs_rework' then 1 …`: an outcome's rank in OUTCOME_PRIORITY (constants only). */
-const OUTCOME_RANK = sql.raw(`case h.outcome ${OUTCOME_PRIORITY.map((o, i) => `when '${o}' then ${i + 1}`).join(' ')} end`);
+/** Which outcome has attention rank n (1-based, as outcome_attention_rank() in SQL gives it). */
 const OUTCOME_BY_RANK = sql.raw(`array[${OUTCOME_PRIORITY.map((o) => `'${o}'`).join(',')}]::text[]`);
 
 /**
@@ -35,12 +36,13 @@ const OUTCOME_BY_RANK = sql.raw(`array[${OUTCOME_PRIORITY.map((o) => `'${o}'`).j
  * From HOMES_DETAIL_MIN_ZOOM up every home is its own feature, with the home's short number (ref)
  * as the feature id so a tap can open it. Below that a tile can hold tens of thousands of homes too
  * close together to tap: they are drawn as one feature per 8-px cell, carrying the number of homes
- * and the outcome most in need of attention.
+ * and the outcome most in need of attention. Without filters those cells are read from home_cells,
+ * which database triggers keep; with filters they are counted from the matching homes.
  */
 export async function homesTile(db: DbOrTx, companyId: string, z: number, x: number, y: number, filter: MapFilter): Promise<Buffer> {
   const query = homesTileQuery(companyId, z, x, y, filter);
   // One tile is a few thousand rows: starting parallel workers costs more than it saves, and the
-  // cells of a dense overview tile must fit one hash table in memory.
+  // cells of a dense filtered overview tile must fit one hash table in memory.
   return db.transaction(async (tx) => {
     await tx.execute(sql`select set_config('max_parallel_workers_per_gather', '0', true), set_config('work_mem', '32MB', true)`);
     const result = await tx.execute<{ mvt: Buffer }>(query);
@@ -48,60 +50,85 @@ export async function homesTile(db: DbOrTx, companyId: string, z: number, x: num
   });
 }
 
-/** The statement behind homesTile (exported for EXPLAIN when tuning). */
-export function homesTileQuery(companyId: string, z: number, x: number, y: number, filter: MapFilter): SQL {
+const isFiltered = (f: MapFilter) =>
+  Boolean(f.builderId || f.communityId || f.yearFrom !== undefined || f.yearTo !== undefined || f.outcome?.length);
+
+/** The statement behind homesTile (exported for EXPLAIN when tuning, and for tests). */
+export function homesTileQuery(companyId: string, z: number, x: number, y: number, filter: MapFilter, options: { liveCells?: boolean } = {}): SQL {
   const conditions: SQL[] = [sql`h.company_id = ${companyId}`];
   if (filter.builderId) conditions.push(sql`h.builder_id = ${filter.builderId}`);
   if (filter.communityId) conditions.push(sql`h.community_id = ${filter.communityId}`);
   if (filter.yearFrom !== undefined) conditions.push(sql`h.year_built >= ${filter.yearFrom}`);
   if (filter.yearTo !== undefined) conditions.push(sql`h.year_built <= ${filter.yearTo}`);
   if (filter.outcome?.length) conditions.push(sql`h.outcome in ${filter.outcome}`);
-  // The tile's west and north edges and the size of one tile unit, in Web Mercator metres; the homes
-  // within BUFFER units around the tile are kept so symbols on a tile edge are drawn whole.
-  const homesInTile = sql`
-    with tile as (
+  // The tile's west and north edges and the size of one tile unit, in Web Mercator metres.
+  const tile = sql`tile as (
       select ST_XMin(e) as x0, ST_YMax(e) as y0, (ST_XMax(e) - ST_XMin(e)) / ${EXTENT} as unit from ST_TileEnvelope(${z}, ${x}, ${y}) e
-    ),
-    planned_homes as (
-      -- The homes in the latest sampling plan of each community; unvisited, they are drawn as "planned".
+    )`;
+  // The homes in the latest sampling plan of each community; unvisited, they are drawn as "planned".
+  const plannedHomes = sql`planned_homes as (
       select home_id from sampling_plan_homes where plan_id in (
         select distinct on (community_id) id from sampling_plans
         where company_id = ${companyId} order by community_id, created_at desc, id desc)
-    ),
-    points as (
-      select (h.merc_x - tile.x0) / tile.unit as tx, (tile.y0 - h.merc_y) / tile.unit as ty,
-        h.ref, h.outcome, h.year_built, h.last_vacuum_pa, h.last_post_bq_m3, h.rework_flag,
-        (h.outcome = 'not_visited' and h.id in (select home_id from planned_homes)) as planned, ${OUTCOME_RANK} as outcome_rank
-      from homes h, tile
-      where ${sql.join(conditions, sql` and `)}
-        and h.merc_x >= tile.x0 - ${BUFFER} * tile.unit and h.merc_x <= tile.x0 + ${EXTENT + BUFFER} * tile.unit
-        and h.merc_y <= tile.y0 + ${BUFFER} * tile.unit and h.merc_y >= tile.y0 - ${EXTENT + BUFFER} * tile.unit
     )`;
-  // Values are rounded half up in float8 (they are never negative): numeric rounding costs about a
-  // quarter of the query on a dense tile, and float8 round() breaks ties to even (3.85 would show as 3.8).
-  return z >= HOMES_DETAIL_MIN_ZOOM
-      ? sql`${homesInTile}
+  // The homes within BUFFER units around the tile are kept, so symbols on a tile edge are drawn whole.
+  const homesInTile = sql`
+    from homes h, tile
+    where ${sql.join(conditions, sql` and `)}
+      and h.merc_x >= tile.x0 - ${BUFFER} * tile.unit and h.merc_x <= tile.x0 + ${EXTENT + BUFFER} * tile.unit
+      and h.merc_y <= tile.y0 + ${BUFFER} * tile.unit and h.merc_y >= tile.y0 - ${EXTENT + BUFFER} * tile.unit`;
+  const isPlanned = sql`(h.outcome = 'not_visited' and h.id in (select home_id from planned_homes))`;
+
+  if (z >= HOMES_DETAIL_MIN_ZOOM) {
+    // Values are rounded half up in float8 (they are never negative): numeric rounding costs about a
+    // quarter of the query on a dense tile, and float8 round() breaks ties to even (3.85 would show as 3.8).
+    return sql`with ${tile}, ${plannedHomes}
     select ST_AsMVT(t.*, 'homes', ${EXTENT}, 'geom', 'ref') as mvt from (
-      select ST_MakePoint(floor(tx + 0.5), floor(ty + 0.5)) as geom, ref, outcome, year_built as year,
-        floor(last_vacuum_pa / ${IN_WC_TO_PA} * 100 + 0.5) / 100 as vacuum_in_wc,
-        floor(last_post_bq_m3 / ${PCI_PER_L_TO_BQ_M3} * 10 + 0.5) / 10 as post_pci_l,
-        rework_flag as rework, planned
-      from points
-    ) t`
-      : sql`${homesInTile}
+      select ST_MakePoint(floor((h.merc_x - tile.x0) / tile.unit + 0.5), floor((tile.y0 - h.merc_y) / tile.unit + 0.5)) as geom,
+        h.ref, h.outcome, h.year_built as year,
+        floor(h.last_vacuum_pa / ${IN_WC_TO_PA} * 100 + 0.5) / 100 as vacuum_in_wc,
+        floor(h.last_post_bq_m3 / ${PCI_PER_L_TO_BQ_M3} * 10 + 0.5) / 10 as post_pci_l,
+        h.rework_flag as rework, ${isPlanned} as planned
+      ${homesInTile}
+    ) t`;
+  }
+
+  // Overview: cells numbered over the whole grid by merc_cell() (as home_cells keeps them), drawn at
+  // their centre in tile units; the ring of cells around the tile is the buffer.
+  // Planned homes are a few per community: found from the plans, not by looking at every home.
+  const plannedCells = sql`planned_cells as (
+      select distinct merc_cell(h.merc_x, ${z}) as cx, merc_cell(-h.merc_y, ${z}) as cy
+      from planned_homes p join homes h on h.id = p.home_id
+      where ${sql.join(conditions, sql` and `)} and h.outcome = 'not_visited'
+    )`;
+  const cells =
+    isFiltered(filter) || options.liveCells
+      ? sql`cells as (
+      select merc_cell(h.merc_x, ${z}) as cx, merc_cell(-h.merc_y, ${z}) as cy, count(*)::int as homes,
+        min(outcome_attention_rank(h.outcome)) as outcome_rank, min(h.year_built) as year_min,
+        sum(h.last_vacuum_pa) as vacuum_sum_pa, count(h.last_vacuum_pa)::int as vacuum_count,
+        max(h.last_post_bq_m3) as post_max_bq_m3, bool_or(h.rework_flag) as rework
+      ${homesInTile}
+      group by 1, 2
+    )`
+      : sql`cells as (
+      select cx, cy, homes, outcome_rank, year_min, vacuum_sum_pa, vacuum_count, post_max_bq_m3, rework
+      from home_cells
+      where company_id = ${companyId} and z = ${z}
+        and cx between ${x * CELLS - 1} and ${x * CELLS + CELLS} and cy between ${y * CELLS - 1} and ${y * CELLS + CELLS}
+    )`;
+  return sql`with ${tile}, ${plannedHomes}, ${plannedCells}, ${cells}
     select ST_AsMVT(t.*, 'homes', ${EXTENT}, 'geom') as mvt from (
       select
-        ST_MakePoint(cx * ${OVERVIEW_CELL_UNITS} + ${OVERVIEW_CELL_UNITS / 2}, cy * ${OVERVIEW_CELL_UNITS} + ${OVERVIEW_CELL_UNITS / 2}) as geom,
-        count(*)::int as homes,
-        (${OUTCOME_BY_RANK})[min(outcome_rank)] as outcome,
-        min(year_built) as year,
-        floor(avg(last_vacuum_pa) / ${IN_WC_TO_PA} * 100 + 0.5) / 100 as vacuum_in_wc,
-        floor(max(last_post_bq_m3) / ${PCI_PER_L_TO_BQ_M3} * 10 + 0.5) / 10 as post_pci_l,
-        bool_or(rework_flag) as rework,
-        bool_or(planned) as planned
-      from (
-        select floor(tx / ${OVERVIEW_CELL_UNITS})::int as cx, floor(ty / ${OVERVIEW_CELL_UNITS})::int as cy, * from points
-      ) cells
-      group by cx, cy
+        ST_MakePoint((c.cx - ${x * CELLS}) * ${OVERVIEW_CELL_UNITS} + ${OVERVIEW_CELL_UNITS / 2}, (c.cy - ${y * CELLS}) * ${OVERVIEW_CELL_UNITS} + ${OVERVIEW_CELL_UNITS / 2}) as geom,
+        c.homes,
+        (${OUTCOME_BY_RANK})[c.outcome_rank] as outcome,
+        c.year_min as year,
+        floor(c.vacuum_sum_pa / nullif(c.vacuum_count, 0) / ${IN_WC_TO_PA} * 100 + 0.5) / 100 as vacuum_in_wc,
+        floor(c.post_max_bq_m3 / ${PCI_PER_L_TO_BQ_M3} * 10 + 0.5) / 10 as post_pci_l,
+        c.rework,
+        exists (select 1 from planned_cells p where p.cx = c.cx and p.cy = c.cy) as planned
+      from cells c
+      where c.cx between ${x * CELLS - 1} and ${x * CELLS + CELLS} and c.cy between ${y * CELLS - 1} and ${y * CELLS + CELLS}
     ) t`;
 }

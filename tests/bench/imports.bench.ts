@@ -94,7 +94,7 @@ const port = await freePort();
 const server = await startServerProcess(port, {
   DATABASE_URL: process.env.BENCH_DATABASE_URL!,
   GEOCODER_URL: geocoder.url,
-  LOG_LEVEL: 'error',
+  LOG_LEVEL: process.env.BENCH_LOG_LEVEL ?? 'error',
   NODE_ENV: 'production',
 });
 try {

@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ApiClient, startTestApp, type TestApp } from '../setup/test-app.js';
 import { demoUser, otherCompanyUser } from '../setup/demo.js';
 import { decodeTile, tileFor } from '../setup/tiles.js';
+import { homeCellMismatches } from '../setup/home-cells.js';
 import { OUTCOMES } from '../../shared/schemas/enums.js';
 import { HOMES_DETAIL_MIN_ZOOM, HOMES_MIN_ZOOM } from '../../shared/schemas/map.js';
 import { homesTileQuery, OUTCOME_PRIORITY } from '../../server/modules/home-tiles/home-tiles.repository.js';
@@ -184,16 +185,7 @@ describe('homes vector tiles', () => {
 });
 
 describe('overview cells kept by database triggers (home_cells)', () => {
-  /** Every cell counted afresh from the homes; sums rounded, since adding in another order moves the last bits. */
-  const FROM_HOMES = `select company_id, z, merc_cell(merc_x, z) as cx, merc_cell(-merc_y, z) as cy, count(*)::int as homes,
-      min(outcome_attention_rank(outcome)) as outcome_rank, min(year_built) as year_min, round(sum(last_vacuum_pa)::numeric, 6) as vacuum_sum_pa,
-      count(last_vacuum_pa)::int as vacuum_count, max(last_post_bq_m3) as post_max_bq_m3, bool_or(rework_flag) as rework
-    from homes, generate_series(${HOMES_MIN_ZOOM}, ${HOMES_DETAIL_MIN_ZOOM - 1}) as z group by 1, 2, 3, 4`;
-  const KEPT = `select company_id, z, cx, cy, homes, outcome_rank, year_min, round(vacuum_sum_pa::numeric, 6), vacuum_count, post_max_bq_m3, rework from home_cells`;
-  async function mismatches() {
-    const { rows } = await app.database.pool.query(`select count(*)::int as n from ((${KEPT} except ${FROM_HOMES}) union all (${FROM_HOMES} except ${KEPT})) d`);
-    return rows[0].n as number;
-  }
+  const mismatches = () => homeCellMismatches(app.database.pool);
   async function companyId() {
     const { rows } = await app.database.pool.query(`select company_id from users where email = $1`, [demoUser('technician')]);
     return rows[0].company_id as string;
@@ -207,6 +199,15 @@ describe('overview cells kept by database triggers (home_cells)', () => {
     const { rows: zooms } = await app.database.pool.query(`select distinct z from home_cells order by z`);
     expect(zooms.map((r) => r.z)).toEqual(Array.from({ length: HOMES_DETAIL_MIN_ZOOM - HOMES_MIN_ZOOM }, (_, i) => HOMES_MIN_ZOOM + i));
     expect(await mismatches()).toBe(0);
+  });
+
+  it('keeps Web Mercator metres equal to PostGIS ST_Transform to EPSG:3857 within a micrometre', async () => {
+    const { rows: [d] } = await app.database.pool.query(
+      `select count(*)::int as n, max(abs(merc_x - ST_X(ST_Transform(location, 3857)))) as dx, max(abs(merc_y - ST_Y(ST_Transform(location, 3857)))) as dy from homes`,
+    );
+    expect(d.n).toBeGreaterThan(0);
+    expect(d.dx).toBeLessThan(1e-6);
+    expect(d.dy).toBeLessThan(1e-6);
   });
 
   it('ranks outcomes in SQL in the order the tiles name them', async () => {

@@ -181,6 +181,28 @@ export async function insertHomes(db: Queryable, companyId: string, batchId: str
   return out[0].n;
 }
 
+/**
+ * The map's overview cells (home_cells) are refreshed by triggers after each statement; an import's
+ * statements of 5,000 rows would count the same cells again and again. This transaction takes that on:
+ * call refreshHomeCellsOfBatch once its homes are written.
+ */
+export async function deferHomeCells(db: Queryable) {
+  await db.query(`select set_config('tractwise.home_cells_deferred', 'on', true)`);
+}
+
+/** The overview cells where the batch's homes now are, and where its updated homes were, counted again (then no longer deferred). */
+export async function refreshHomeCellsOfBatch(db: Queryable, companyId: string, batchId: string) {
+  await db.query(
+    `select refresh_home_cells_at(array_agg(company_id), array_agg(x), array_agg(y)) from (
+       select h.company_id, h.merc_x as x, h.merc_y as y from import_changes c join homes h on h.id = c.home_id where c.batch_id = $2
+       union all
+       select $1::uuid, (c.previous->>'merc_x')::float8, (c.previous->>'merc_y')::float8 from import_changes c where c.batch_id = $2 and c.action = 'updated'
+     ) p`,
+    [companyId, batchId],
+  );
+  await db.query(`select set_config('tractwise.home_cells_deferred', 'off', true)`);
+}
+
 /** True for the error of an INSERT that met a home already at that address. */
 export function isAddressTaken(err: unknown): boolean {
   const e = err as { code?: string; constraint?: string } | null;

@@ -408,6 +408,7 @@ async function process(deps: ImportDeps, viewer: SessionUser, query: StartImport
     };
     await repo.insertBatch(client, { id: job.id, companyId: viewer.companyId, userId: viewer.id, fileName: job.fileName, mapping: stored, rowCount: counts.rows, ...counts, errors });
     await repo.recordPreviousRows(client, job.id, viewer.companyId, updates.map((u) => u.id));
+    await repo.deferHomeCells(client);
     mark('batch');
 
     for (let i = 0; i < updates.length; i += WRITE_CHUNK) {
@@ -426,6 +427,7 @@ async function process(deps: ImportDeps, viewer: SessionUser, query: StartImport
       }
       job.progress.rowsWritten += chunk.length;
     }
+    await repo.refreshHomeCellsOfBatch(client, viewer.companyId, job.id);
     mark('homes');
     // Unchanged homes are counted, not recorded: undo has nothing to put back for them.
     job.progress.rowsWritten += unchanged.length;

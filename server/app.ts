@@ -133,7 +133,7 @@ export function createApp({ env, database, storage = createObjectStorage(env) }:
   app.use('/api/home-results', homeResultsRouter(db, mailer));
   app.use('/api/mail', mailRouter(mailer));
   app.use('/api', notFoundHandler);
-  app.use('/tiles/homes', homeTilesRouter(db));
+  app.use('/tiles/homes', homeTilesRouter(database.tiles));
 
   const clientDist = path.resolve(env.CLIENT_DIST);
   if (fs.existsSync(path.join(clientDist, 'index.html'))) {

@@ -40,14 +40,9 @@ const OUTCOME_BY_RANK = sql.raw(`array[${OUTCOME_PRIORITY.map((o) => `'${o}'`).j
  * which database triggers keep; with filters they are counted from the matching homes.
  */
 export async function homesTile(db: DbOrTx, companyId: string, z: number, x: number, y: number, filter: MapFilter): Promise<Buffer> {
-  const query = homesTileQuery(companyId, z, x, y, filter);
-  // One tile is a few thousand rows: starting parallel workers costs more than it saves, and the
-  // cells of a dense filtered overview tile must fit one hash table in memory.
-  return db.transaction(async (tx) => {
-    await tx.execute(sql`select set_config('max_parallel_workers_per_gather', '0', true), set_config('work_mem', '32MB', true)`);
-    const result = await tx.execute<{ mvt: Buffer }>(query);
-    return result.rows[0]?.mvt ?? Buffer.alloc(0);
-  });
+  // db: the tile connections (Database.tiles), set up with no parallel workers and room to hash cells.
+  const result = await db.execute<{ mvt: Buffer }>(homesTileQuery(companyId, z, x, y, filter));
+  return result.rows[0]?.mvt ?? Buffer.alloc(0);
 }
 
 const isFiltered = (f: MapFilter) =>

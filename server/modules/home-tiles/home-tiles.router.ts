@@ -6,6 +6,7 @@ import { validate } from '../../middleware/validate.js';
 import { createHomeTiles } from './home-tiles.service.js';
 
 /** GET /tiles/homes/:z/:x/:y.pbf — the signed-in company's homes as a vector tile, filtered like the map. */
+/** db: the tile connections (Database.tiles). */
 export function homeTilesRouter(db: Db): Router {
   const router = Router();
   const homeTiles = createHomeTiles(db);

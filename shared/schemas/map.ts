@@ -30,6 +30,9 @@ export const TileParams = z
   .refine((t) => t.x < 2 ** t.z, { path: ['x'], message: 'outside the tile grid at this zoom' })
   .refine((t) => t.y < 2 ** t.z, { path: ['y'], message: 'outside the tile grid at this zoom' });
 
+/** The map asks for homes tiles up to this zoom and draws deeper zooms from them (MVT overzoom). */
+export const HOMES_MAX_TILE_ZOOM = 16;
+
 /** Homes are drawn from this zoom up; below it the tile is empty (community outlines carry the view). */
 export const HOMES_MIN_ZOOM = 11;
 

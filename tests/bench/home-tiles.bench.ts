@@ -27,9 +27,16 @@ await database.pool.query('vacuum analyze');
 const { rows: [{ n }] } = await database.pool.query('select count(*)::int as n from homes');
 process.stdout.write(`inserted ${HOMES} synthetic homes in ${Date.now() - started} ms (${n} homes in all)\n`);
 const { rows: [admin] } = await database.pool.query(`select email from users where company_id = $1 and role = 'admin'`, [company.id]);
-/** Touches one of the company's homes, as a visit would: the homes version goes up and every cached tile is stale. */
+/** A change too wide to list tile by tile (as an import makes): the company's homes version goes up and every cached tile is stale. */
 async function pgBump() {
-  await database.pool.query(`update homes set rework_flag = rework_flag where id = (select id from homes where company_id = $1 limit 1)`, [company.id]);
+  await database.pool.query(`update companies set homes_version = homes_version + 1 where id = $1`, [company.id]);
+}
+/** A visit to one synthetic home: its outcome changes, and so do the tiles that draw it. */
+async function visitOneHome(i: number) {
+  await database.pool.query(
+    `update homes set outcome = case when outcome = 'needs_rework' then 'awaiting_test' else 'needs_rework' end where company_id = $1 and address_key = $2`,
+    [company.id, `BENCH|${1 + ((i * 7919) % HOMES)}`],
+  );
 }
 
 const port = await freePort();
@@ -86,6 +93,14 @@ try {
       const t = order[(i * 31) % built];
       warm.push((await time(`${base}/tiles/homes/${z}/${t.x}/${t.y}.pbf?v=${i}`, { Cookie: cookie })).ms);
     }
+    // A day on the map: the same tiles asked for while technicians record visits, one home changing every
+    // 10 requests. Only the tiles that draw a visited home are built again.
+    const visits: number[] = [];
+    for (let i = 0; i < REQUESTS_PER_ZOOM; i++) {
+      if (i % 10 === 0) await visitOneHome(z * 1000 + i);
+      const t = order[(i * 31) % built];
+      visits.push((await time(`${base}/tiles/homes/${z}/${t.x}/${t.y}.pbf?d=${i}`, { Cookie: cookie })).ms);
+    }
     const meanBytes = Math.round(sizes.reduce((a, b) => a + b, 0) / sizes.length);
     // A static file of the mean tile size, served by the same process (express.static) in the same run.
     const staticName = `bench-static-${z}.bin`;
@@ -98,7 +113,7 @@ try {
     const stat = summarise(staticSamples);
     if (builds.length !== cold.length) throw new Error(`only ${builds.length} of ${cold.length} cold requests were built by the server`);
     const build = summarise(builds);
-    for (const [kind, samples] of [['cold (built)', cold], ['warm (cached)', warm]] as const) {
+    for (const [kind, samples] of [['cold (built)', cold], ['warm (cached)', warm], ['during visits', visits]] as const) {
       const tile = summarise(samples);
       rows.push({
         zoom: z,

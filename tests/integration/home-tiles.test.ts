@@ -4,7 +4,7 @@ import { demoUser, otherCompanyUser } from '../setup/demo.js';
 import { decodeTile, tileFor } from '../setup/tiles.js';
 import { homeCellMismatches } from '../setup/home-cells.js';
 import { OUTCOMES } from '../../shared/schemas/enums.js';
-import { HOMES_DETAIL_MIN_ZOOM, HOMES_MIN_ZOOM } from '../../shared/schemas/map.js';
+import { HOMES_DETAIL_MIN_ZOOM, HOMES_MAX_TILE_ZOOM, HOMES_MIN_ZOOM } from '../../shared/schemas/map.js';
 import { homesTileQuery, OUTCOME_PRIORITY } from '../../server/modules/home-tiles/home-tiles.repository.js';
 
 let app: TestApp;
@@ -21,7 +21,7 @@ afterAll(() => app.close());
 
 async function fetchTile(client: ApiClient, path: string) {
   const res = await fetch(app.url + path, { headers: { Cookie: client.cookie } });
-  return { status: res.status, type: res.headers.get('content-type'), body: new Uint8Array(await res.arrayBuffer()) };
+  return { status: res.status, type: res.headers.get('content-type'), timing: res.headers.get('server-timing') ?? '', body: new Uint8Array(await res.arrayBuffer()) };
 }
 
 /**
@@ -271,6 +271,76 @@ describe('overview cells kept by database triggers (home_cells)', () => {
       }
     } finally {
       await app.database.pool.query(`update homes set outcome = $2, rework_flag = $3, last_vacuum_pa = $4 where id = $1`, [home.id, was.outcome, was.rework_flag, was.last_vacuum_pa]);
+    }
+  });
+});
+
+describe('which cached tiles a change makes stale (home_tile_versions)', () => {
+  /** Longitude of a point `units` of the 4096 grid inside the east edge of tile x at zoom z (Mercator x is linear in longitude). */
+  const lonInsideEastEdge = (z: number, x: number, units: number) => ((x + 1 - units / 4096) / 2 ** z) * 360 - 180;
+
+  it('rebuilds the tiles that draw a changed home, its neighbour showing it in the margin included, and keeps the rest cached', async () => {
+    const { rows: [company] } = await app.database.pool.query(`select company_id as id from users where email = $1`, [demoUser('technician')]);
+    const z = HOMES_MAX_TILE_ZOOM;
+    const { x, y } = tileFor(home.lon, home.lat, z);
+    const lon = lonInsideEastEdge(z, x, 10);
+    const { rows: [edge] } = await app.database.pool.query(
+      `insert into homes (company_id, number, street, city, state, zip, address_key, location, outcome)
+       values ($1, '1', 'Tile Edge Row', 'Testville', 'ZZ', '00001', 'TILE-EDGE|1', ST_SetSRID(ST_MakePoint($2, $3), 4326), 'not_visited') returning ref::int as ref`,
+      [company.id, lon, home.lat],
+    );
+    try {
+      const own = `/tiles/homes/${z}/${x}/${y}.pbf`;
+      const neighbour = `/tiles/homes/${z}/${x + 1}/${y}.pbf`;
+      const far = `/tiles/homes/${z}/${x + 40}/${y}.pbf`;
+      const overview = (() => { const t = tileFor(lon, home.lat, HOMES_MIN_ZOOM); return `/tiles/homes/${t.z}/${t.x}/${t.y}.pbf`; })();
+      for (const path of [own, neighbour, far, overview]) await fetchTile(tech, path); // built and cached
+      for (const path of [own, neighbour, far, overview]) expect((await fetchTile(tech, path)).timing).toContain('cached');
+
+      await app.database.pool.query(`update homes set outcome = 'needs_rework', rework_flag = true where ref = $1`, [edge.ref]);
+      const drawnOutcome = async (path: string) => {
+        const res = await fetchTile(tech, path);
+        const layer = decodeTile(res.body).layers.homes;
+        const f = Array.from({ length: layer.length }, (_, i) => layer.feature(i)).find((g) => g.id === edge.ref);
+        return { timing: res.timing, outcome: f?.properties.outcome, point: f?.loadGeometry()[0][0] };
+      };
+      const ownAfter = await drawnOutcome(own);
+      expect(ownAfter.timing).toContain('built');
+      expect(ownAfter.outcome).toBe('needs_rework');
+      const neighbourAfter = await drawnOutcome(neighbour);
+      expect(neighbourAfter.timing).toContain('built');
+      expect(neighbourAfter.outcome).toBe('needs_rework');
+      expect(neighbourAfter.point!.x).toBeLessThan(0); // in the neighbour's margin (MVT spec 2.1 §4.3: coordinates may lie outside the extent)
+      expect((await fetchTile(tech, overview)).timing).toContain('built');
+      expect((await fetchTile(tech, far)).timing).toContain('cached');
+      // A change to what no tile draws (the owner's name) leaves every tile cached.
+      await app.database.pool.query(`update homes set owner_name = 'Tile Edge Owner' where ref = $1`, [edge.ref]);
+      for (const path of [own, neighbour, overview]) expect((await fetchTile(tech, path)).timing).toContain('cached');
+    } finally {
+      await app.database.pool.query(`delete from homes where address_key = 'TILE-EDGE|1'`);
+    }
+  });
+
+  it('versions every tile zoom the map asks for, and leaves statements of more than 2,000 homes to the company version', async () => {
+    const { rows: [company] } = await app.database.pool.query(`select company_id as id, (select homes_version from companies c where c.id = u.company_id)::int as v from users u where email = $1`, [demoUser('technician')]);
+    const { rows: [was] } = await app.database.pool.query(`select last_vacuum_pa from homes where id = $1`, [home.id]);
+    await app.database.pool.query(`update homes set last_vacuum_pa = coalesce(last_vacuum_pa, 0) + 1 where id = $1`, [home.id]);
+    try {
+      const { rows: zooms } = await app.database.pool.query(
+        `select distinct z from home_tile_versions where company_id = $1 and version = (select max(version) from home_tile_versions where company_id = $1) order by z`,
+        [company.id],
+      );
+      expect(zooms.map((r) => r.z)).toEqual(Array.from({ length: HOMES_MAX_TILE_ZOOM - HOMES_MIN_ZOOM + 1 }, (_, i) => HOMES_MIN_ZOOM + i));
+      await app.database.pool.query(
+        `insert into homes (company_id, number, street, city, state, zip, address_key, location)
+         select $1, g::text, 'Bulk Row', 'Testville', 'ZZ', '00001', 'TILE-BULK|' || g, ST_SetSRID(ST_MakePoint($2 + g * 0.00001, $3), 4326) from generate_series(1, 2001) g`,
+        [company.id, home.lon, home.lat],
+      );
+      const { rows: [after] } = await app.database.pool.query(`select homes_version::int as v from companies where id = $1`, [company.id]);
+      expect(after.v).toBe(company.v + 1);
+    } finally {
+      await app.database.pool.query(`update homes set last_vacuum_pa = $2 where id = $1`, [home.id, was.last_vacuum_pa]);
+      await app.database.pool.query(`delete from homes where address_key like 'TILE-BULK|%'`);
     }
   });
 });

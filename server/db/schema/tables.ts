@@ -392,6 +392,26 @@ export const columnMappings = pgTable(
 );
 
 /**
+ * When the homes drawn in one homes tile last changed (migration 0012): statement-level triggers give
+ * each tile a change touches (its own, and a neighbour whose margin shows the home) a new version.
+ * A tile is cached under this version and companies.homes_version, which covers changes too wide to
+ * list tile by tile (sampling plans, statements of more than 2,000 homes).
+ */
+export const homeTileVersions = pgTable(
+  'home_tile_versions',
+  {
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
+    z: integer('z').notNull(),
+    x: integer('x').notNull(),
+    y: integer('y').notNull(),
+    version: bigint('version', { mode: 'number' }).notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.companyId, t.z, t.x, t.y] })],
+);
+
+/**
  * The map's overview marks, kept by database triggers (migration 0009): for each zoom below
  * HOMES_DETAIL_MIN_ZOOM, one row per 64-unit cell of the tile grid (8 px on screen) that holds any of a
  * company's homes. An unfiltered overview tile reads a few thousand of these instead of tens of

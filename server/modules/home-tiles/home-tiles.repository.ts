@@ -1,6 +1,6 @@
 import { sql, type SQL } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client.js';
-import { HOMES_DETAIL_MIN_ZOOM, type MapFilter } from '../../../shared/schemas/map.js';
+import { HOMES_DETAIL_MIN_ZOOM, HOMES_MAX_TILE_ZOOM, type MapFilter } from '../../../shared/schemas/map.js';
 import { OUTCOMES } from '../../../shared/schemas/enums.js';
 import { IN_WC_TO_PA, PCI_PER_L_TO_BQ_M3 } from '../../../shared/domain/units.js';
 
@@ -11,10 +11,20 @@ export const OVERVIEW_CELL_UNITS = 64;
 export const OUTCOME_PRIORITY = ['needs_rework', 'awaiting_test', 'reworked_below', 'below_action_level', 'declined', 'not_visited'] as const;
 if (OUTCOME_PRIORITY.length !== OUTCOMES.length) throw new Error('OUTCOME_PRIORITY must list every outcome');
 
-/** The company's homes version: bumped by trigger with every change to its homes or sampling plans. */
-export async function homesVersion(db: DbOrTx, companyId: string): Promise<number> {
-  const result = await db.execute<{ v: string }>(sql`select homes_version::text as v from companies where id = ${companyId}`);
-  return Number(result.rows[0]?.v ?? 0);
+/**
+ * What a cached tile is valid for: the company's homes version (bumped by trigger for changes too wide to
+ * list tile by tile: sampling plans, statements of more than 2,000 homes) and the tile's own version
+ * (bumped by trigger when a home it draws changes). A tile deeper than HOMES_MAX_TILE_ZOOM takes the
+ * version of the tile it lies in at that zoom.
+ */
+export async function tileVersions(db: DbOrTx, companyId: string, z: number, x: number, y: number): Promise<{ company: number; tile: number }> {
+  const shift = Math.max(0, z - HOMES_MAX_TILE_ZOOM);
+  const result = await db.execute<{ company: string; tile: string | null }>(sql`
+    select c.homes_version::text as company, t.version::text as tile
+    from companies c left join home_tile_versions t on t.company_id = c.id and t.z = ${z - shift} and t.x = ${Math.floor(x / 2 ** shift)} and t.y = ${Math.floor(y / 2 ** shift)}
+    where c.id = ${companyId}`);
+  const row = result.rows[0];
+  return { company: Number(row?.company ?? 0), tile: Number(row?.tile ?? 0) };
 }
 
 /** Tile coordinates per tile side (the MVT default) and the margin kept around a tile, in the same units. */

@@ -4,9 +4,10 @@ import { HOMES_MIN_ZOOM, type MapFilter } from '../../../shared/schemas/map.js';
 import * as repo from './home-tiles.repository.js';
 
 /**
- * Homes tiles, cached in memory per company, filter and tile. The key includes the company's homes
- * version, which a database trigger bumps with every change to its homes or sampling plans, so a tile
- * is never served stale: the next request after a visit, an import or an edit builds it anew.
+ * Homes tiles, cached in memory per company, filter and tile. The key includes the tile's own version
+ * and the company's homes version, both bumped by database triggers (see repo.tileVersions), so a tile
+ * is never served stale: the next request after a visit, an import or an edit builds the tiles that
+ * draw the changed homes anew, and the rest of the map stays cached.
  */
 export function createHomeTiles(db: Db, options: { maxBytes?: number } = {}) {
   const cache = new LRUCache<string, Buffer>({
@@ -19,8 +20,8 @@ export function createHomeTiles(db: Db, options: { maxBytes?: number } = {}) {
   /** The tile, and how long building it took (null when it came from the cache). */
   async function tile(companyId: string, z: number, x: number, y: number, filter: MapFilter): Promise<{ data: Buffer; buildMs: number | null }> {
     if (z < HOMES_MIN_ZOOM) return { data: Buffer.alloc(0), buildMs: null };
-    const version = await repo.homesVersion(db, companyId);
-    const key = [companyId, version, z, x, y, filter.builderId ?? '', filter.communityId ?? '', filter.yearFrom ?? '', filter.yearTo ?? '', (filter.outcome ?? []).join(',')].join('|');
+    const version = await repo.tileVersions(db, companyId, z, x, y);
+    const key = [companyId, version.company, version.tile, z, x, y, filter.builderId ?? '', filter.communityId ?? '', filter.yearFrom ?? '', filter.yearTo ?? '', (filter.outcome ?? []).join(',')].join('|');
     const cached = cache.get(key);
     if (cached) {
       hits++;

@@ -21,7 +21,7 @@ import {
 import { renderOutcomeIcons, ICON_PIXEL_RATIO } from '../utils/outcome-icons';
 import { loadCamera, saveCamera, tileQuery, type MapFilters } from '../use-map-state';
 import { useHomeTilesVersion } from '@/lib/home-tiles-version';
-import { HOMES_DETAIL_MIN_ZOOM } from '@shared/schemas/map';
+import { HOMES_DETAIL_MIN_ZOOM, HOMES_MAX_TILE_ZOOM, HOMES_MIN_ZOOM } from '@shared/schemas/map';
 
 // maplibre-gl 6 needs its worker URL set explicitly in a production build (STACK.md).
 setWorkerUrl(workerUrl);
@@ -113,7 +113,7 @@ export function MapView({ filters, styleMode, actionLevelPciL, selectedHomeRef, 
         <Layer {...communityLabelLayer} />
       </Source>
       {/* key: a new filter set means a new tile set; react-map-gl swaps the source's tiles. */}
-      <Source id={HOMES_SOURCE} type="vector" tiles={tiles} minzoom={11} maxzoom={16}>
+      <Source id={HOMES_SOURCE} type="vector" tiles={tiles} minzoom={HOMES_MIN_ZOOM} maxzoom={HOMES_MAX_TILE_ZOOM}>
         {styleMode !== 'outcome' && <Layer {...contextLayer} />}
         {styleMode === 'outcome' && <Layer {...outcomeLayer} />}
         {styleMode === 'vacuum' && <Layer {...vacuumLayer} />}

@@ -6,6 +6,7 @@ import { homeCellMismatches } from '../setup/home-cells.js';
 import { OUTCOMES } from '../../shared/schemas/enums.js';
 import { HOMES_DETAIL_MIN_ZOOM, HOMES_MAX_TILE_ZOOM, HOMES_MIN_ZOOM } from '../../shared/schemas/map.js';
 import { homesTileQuery, OUTCOME_PRIORITY } from '../../server/modules/home-tiles/home-tiles.repository.js';
+import { createHomeTiles } from '../../server/modules/home-tiles/home-tiles.service.js';
 
 let app: TestApp;
 let tech: ApiClient;
@@ -138,6 +139,19 @@ describe('homes vector tiles', () => {
     // 1 in. WC = 249.0889 Pa (NIST SP 811 B.8); 1 pCi/L = 37 Bq/m³ (1 Ci = 3.7e10 Bq, curie definition).
     expect(f.properties.vacuum_in_wc).toBeCloseTo(Math.round((measured.last_vacuum_pa / 249.0889) * 100) / 100, 9);
     expect(f.properties.post_pci_l).toBeCloseTo(Math.round((measured.last_post_bq_m3 / 37) * 10) / 10, 9);
+  });
+
+  it('builds a tile once when several ask for it at the same moment', async () => {
+    const { rows: [company] } = await app.database.pool.query(`select company_id as id from users where email = $1`, [demoUser('technician')]);
+    const tiles = createHomeTiles(app.database.tiles);
+    const { z, x, y } = tileFor(home.lon, home.lat, 15);
+    const answers = await Promise.all(Array.from({ length: 5 }, () => tiles.tile(company.id, z, x, y, { outcome: undefined })));
+    expect(tiles.stats().misses).toBe(1);
+    expect(answers[0].data.length).toBeGreaterThan(0);
+    for (const a of answers) expect(Buffer.compare(a.data, answers[0].data)).toBe(0);
+    // Once built, from the cache.
+    expect((await tiles.tile(company.id, z, x, y, { outcome: undefined })).buildMs).toBeNull();
+    expect(tiles.stats().misses).toBe(1);
   });
 
   it('answers an empty, valid tile outside the town', async () => {

@@ -14,6 +14,9 @@ export function createHomeTiles(db: Db, options: { maxBytes?: number } = {}) {
     maxSize: options.maxBytes ?? 64 * 1024 * 1024,
     sizeCalculation: (tile) => Math.max(1, tile.length),
   });
+  // Tiles being built: a map opened in several tabs, or by several people, asks for the same tiles at
+  // once; they wait on one build.
+  const building = new Map<string, Promise<Buffer>>();
   let hits = 0;
   let misses = 0;
 
@@ -27,10 +30,15 @@ export function createHomeTiles(db: Db, options: { maxBytes?: number } = {}) {
       hits++;
       return { data: cached, buildMs: null };
     }
-    misses++;
     const started = performance.now();
-    const built = await repo.homesTile(db, companyId, z, x, y, filter);
-    cache.set(key, built);
+    let pending = building.get(key);
+    if (!pending) {
+      misses++;
+      pending = repo.homesTile(db, companyId, z, x, y, filter).finally(() => building.delete(key));
+      building.set(key, pending);
+      pending.then((built) => cache.set(key, built), () => undefined);
+    }
+    const built = await pending;
     return { data: built, buildMs: performance.now() - started };
   }
 

@@ -17,6 +17,7 @@ import { useSettings } from '@/features/settings/api/settings';
 import { PanelBoundary } from '@/components/ui/panel-boundary';
 import { EmptyState } from '@/components/ui/empty-state';
 import { ErrorNote } from '@/components/ui/error-note';
+import { ApiError } from '@/lib/api-client';
 import { useSession } from '@/features/auth/api/get-session';
 import { FIELD_ROLES } from '@/features/visits/utils/roles';
 import { useOutbox } from '@/lib/outbox';
@@ -92,7 +93,11 @@ function MapScreen() {
             onSelectHome={(ref) => {
               setTapError(null);
               if (ref == null) return update({ home: undefined });
-              fetchHomeByRef(queryClient, ref).then((detail) => update({ home: detail.home.id }), setTapError);
+              fetchHomeByRef(queryClient, ref).then(
+                (detail) => update({ home: detail.home.id }),
+                (err: unknown) =>
+                  setTapError(err instanceof ApiError ? err : new Error('That home could not be opened: the server did not answer. Tap it again once you are back online.')),
+              );
             }}
           />
         </PanelBoundary>

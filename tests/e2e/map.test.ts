@@ -46,6 +46,16 @@ describe('the map', () => {
     await page.mouse.click(point!.x, point!.y);
     await page.getByTestId('home-address').waitFor();
     expect(await page.getByTestId('home-address').textContent()).toBe(target.address);
+    expect(new URL(page.url()).searchParams.get('home')).toBe(target.id);
+    // The ring around the selected home: drawn for the feature whose id is the home's short number.
+    await page.waitForFunction(
+      (ref) =>
+        (window as unknown as { __tractwiseMap: { queryRenderedFeatures(o: { layers: string[] }): { id?: number }[] } }).__tractwiseMap
+          .queryRenderedFeatures({ layers: ['homes-selected'] })
+          .some((f) => f.id === ref),
+      target.ref,
+      { timeout: 10_000, polling: 200 },
+    );
     await page.screenshot({ path: path.join(ARTIFACTS, 'map-home-panel.png') });
 
     // Every request the page made went to the app's own origin.

@@ -58,6 +58,15 @@ describe('the map', () => {
     );
     await page.screenshot({ path: path.join(ARTIFACTS, 'map-home-panel.png') });
 
+    // Without a connection, a home opened before on this device still opens from a tap.
+    await page.getByRole('button', { name: 'Close home panel' }).click();
+    await page.getByTestId('home-address').waitFor({ state: 'detached' });
+    await context.setOffline(true);
+    await page.mouse.click(point!.x, point!.y);
+    await page.getByTestId('home-address').waitFor();
+    expect(await page.getByTestId('home-address').textContent()).toBe(target.address);
+    await context.setOffline(false);
+
     // Every request the page made went to the app's own origin.
     const foreign = requests.filter((u) => !u.startsWith(app.baseUrl) && !u.startsWith('data:') && !u.startsWith('blob:'));
     expect(foreign).toEqual([]);

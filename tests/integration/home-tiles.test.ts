@@ -259,6 +259,40 @@ describe('overview cells kept by database triggers (home_cells)', () => {
     expect(await mismatches()).toBe(0);
   });
 
+  it('stays right when two transactions change homes of one cell at the same time', async () => {
+    const company = await companyId();
+    const pool = app.database.pool;
+    // 2,101 homes a few metres apart, homes 1 and 2 in one zoom-13 cell. The first transaction changes
+    // all but home 2 in one statement (more than 2,000 homes: the company's version, not tile rows, goes
+    // up, so nothing else makes the second wait); the second changes home 2.
+    await pool.query(
+      `insert into homes (company_id, number, street, city, state, zip, address_key, location, outcome)
+       select $1, g::text, 'Same Cell Row', 'Testville', 'ZZ', '00001', 'SAMECELL|' || g,
+              ST_SetSRID(ST_MakePoint($2 + (g % 50) * 0.00003, $3 + (g / 50) * 0.00003), 4326), 'not_visited'
+       from generate_series(1, 2101) g`,
+      [company, home.lon + 0.02, home.lat + 0.02],
+    );
+    const first = await pool.connect();
+    const second = await pool.connect();
+    try {
+      await first.query('begin');
+      await first.query(`update homes set outcome = 'needs_rework', rework_flag = true where address_key like 'SAMECELL|%' and address_key <> 'SAMECELL|2'`);
+      await second.query('begin');
+      // Waits until the first commits, then counts the cell with the first's change in it.
+      const secondUpdate = second.query(`update homes set outcome = 'below_action_level', last_vacuum_pa = 150 where address_key = 'SAMECELL|2'`);
+      await new Promise((resolve) => setTimeout(resolve, 300));
+      await first.query('commit');
+      await secondUpdate;
+      await second.query('commit');
+      expect(await mismatches()).toBe(0);
+    } finally {
+      first.release();
+      second.release();
+      await pool.query(`delete from homes where address_key like 'SAMECELL|%'`);
+    }
+    expect(await mismatches()).toBe(0);
+  });
+
   it('draws the same overview tile from the kept cells as from counting the homes', async () => {
     const company = await companyId();
     const { rows: [was] } = await app.database.pool.query(`select outcome, rework_flag, last_vacuum_pa from homes where id = $1`, [home.id]);

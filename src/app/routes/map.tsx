@@ -1,4 +1,4 @@
-import { useEffect, useMemo, useState } from 'react';
+import { useEffect, useMemo, useRef, useState } from 'react';
 import { MapProvider, useMap } from 'react-map-gl/maplibre';
 import { useQueryClient } from '@tanstack/react-query';
 import { Link, useNavigate, useLocation } from 'react-router-dom';
@@ -9,7 +9,7 @@ import { MapLegend } from '@/features/map/components/map-legend';
 import { MapFiltersPanel } from '@/features/map/components/map-filters';
 import { restoredSearch, useMapState } from '@/features/map/use-map-state';
 import { HomePanel } from '@/features/homes/components/home-panel';
-import { fetchHomeByRef, useHome } from '@/features/homes/api/get-home';
+import { homeIdByRef, useHome } from '@/features/homes/api/get-home';
 import { AddressSearch } from '@/features/homes/components/address-search';
 import { useCommunities } from '@/features/communities/api/get-communities';
 import { useBuilders } from '@/features/builders/api/get-builders';
@@ -49,6 +49,7 @@ function MapScreen() {
   const selectedHome = useHome(selectedHomeId);
   // A tap that could not open its home (offline, or the home was just deleted).
   const [tapError, setTapError] = useState<unknown>(null);
+  const lastTap = useRef(0);
 
   const communityFc = useMemo<FeatureCollection>(
     () => ({
@@ -91,11 +92,14 @@ function MapScreen() {
             communities={communityFc}
             initialCenter={center}
             onSelectHome={(ref) => {
+              // Only the latest tap counts: an answer to an earlier one that arrives late is dropped.
+              const tap = ++lastTap.current;
               setTapError(null);
               if (ref == null) return update({ home: undefined });
-              fetchHomeByRef(queryClient, ref).then(
-                (detail) => update({ home: detail.home.id }),
+              homeIdByRef(queryClient, ref).then(
+                (id) => tap === lastTap.current && update({ home: id }),
                 (err: unknown) =>
+                  tap === lastTap.current &&
                   setTapError(err instanceof ApiError ? err : new Error('That home could not be opened: the server did not answer. Tap it again once you are back online.')),
               );
             }}
@@ -117,6 +121,7 @@ function MapScreen() {
       <div className="absolute left-2 right-14 top-2 z-10 flex flex-col gap-2 sm:right-auto sm:w-80">
         <AddressSearch
           onPick={(home) => {
+            lastTap.current++;
             update({ home: home.id });
             maps[MAP_ID]?.flyTo({ center: [home.lon, home.lat], zoom: 17 });
           }}
@@ -138,7 +143,10 @@ function MapScreen() {
               homeId={selectedHomeId}
               radonUnit={radonUnit}
               actionLevelBqM3={actionLevelBqM3}
-              onClose={() => update({ home: undefined })}
+              onClose={() => {
+                lastTap.current++;
+                update({ home: undefined });
+              }}
               actions={<FieldActions homeId={selectedHomeId} />}
             />
           </PanelBoundary>

@@ -3,6 +3,7 @@ import { createDatabase } from './db/client.js';
 import { runMigrations } from './db/migrate.js';
 import { createApp } from './app.js';
 import { logger } from './lib/logger.js';
+import { warmTileConnections } from './modules/home-tiles/home-tiles.service.js';
 import { createObjectStorage, ensureBucketAtStart } from './lib/object-storage.js';
 
 const config = env();
@@ -18,6 +19,8 @@ const server = app.listen(config.PORT, config.HOST, () => {
 });
 // In the background: the store (or the local fake started beside this process) may still be starting.
 void ensureBucketAtStart(storage);
+// In the background too: each map-tile connection does its first, slow query before a map needs it.
+void warmTileConnections(database.tiles, database.tileConnections).catch((err: unknown) => logger.warn('tile connections not warmed', { err: String(err) }));
 
 function shutdown(signal: string) {
   logger.info('shutting down', { signal });

@@ -15,6 +15,8 @@ export interface Database {
    * memory. Settings per connection spare each tile a transaction of three more round trips.
    */
   tiles: Db;
+  /** How many connections `tiles` opens at most. */
+  tileConnections: number;
   close(): Promise<void>;
 }
 
@@ -25,12 +27,13 @@ export function createDatabase(url: string, max = 10): Database {
   // ST_AsMVT); keep idle connections five minutes rather than pg's default ten seconds.
   const pool = new pg.Pool({ connectionString: url, max, options: '-c jit=off', idleTimeoutMillis: 5 * 60_000 });
   const db = drizzle(pool, { schema: tables, casing: 'snake_case' });
+  const tileConnections = Math.min(4, max);
   const tilePool = new pg.Pool({
     connectionString: url,
-    max: Math.min(4, max),
+    max: tileConnections,
     options: '-c jit=off -c max_parallel_workers_per_gather=0 -c work_mem=32MB',
     idleTimeoutMillis: 5 * 60_000,
   });
   const tiles = drizzle(tilePool, { schema: tables, casing: 'snake_case' });
-  return { pool, db, tiles, close: async () => void (await Promise.all([pool.end(), tilePool.end()])) };
+  return { pool, db, tiles, tileConnections, close: async () => void (await Promise.all([pool.end(), tilePool.end()])) };
 }

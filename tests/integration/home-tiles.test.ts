@@ -6,7 +6,7 @@ import { homeCellMismatches } from '../setup/home-cells.js';
 import { OUTCOMES } from '../../shared/schemas/enums.js';
 import { HOMES_DETAIL_MIN_ZOOM, HOMES_MAX_TILE_ZOOM, HOMES_MIN_ZOOM } from '../../shared/schemas/map.js';
 import { homesTileQuery, OUTCOME_PRIORITY } from '../../server/modules/home-tiles/home-tiles.repository.js';
-import { createHomeTiles } from '../../server/modules/home-tiles/home-tiles.service.js';
+import { createHomeTiles, warmTileConnections } from '../../server/modules/home-tiles/home-tiles.service.js';
 
 let app: TestApp;
 let tech: ApiClient;
@@ -152,6 +152,13 @@ describe('homes vector tiles', () => {
     // Once built, from the cache.
     expect((await tiles.tile(company.id, z, x, y, { outcome: undefined })).buildMs).toBeNull();
     expect(tiles.stats().misses).toBe(1);
+  });
+
+  it('opens and warms every tile connection at start', async () => {
+    const pool = (app.database.tiles as unknown as { $client: { totalCount: number } }).$client;
+    await warmTileConnections(app.database.tiles, app.database.tileConnections);
+    expect(app.database.tileConnections).toBeGreaterThan(1);
+    expect(pool.totalCount).toBe(app.database.tileConnections);
   });
 
   it('answers an empty, valid tile outside the town', async () => {

@@ -1,6 +1,6 @@
 import { LRUCache } from 'lru-cache';
 import type { Db } from '../../db/client.js';
-import { HOMES_MIN_ZOOM, type MapFilter } from '../../../shared/schemas/map.js';
+import { HOMES_DETAIL_MIN_ZOOM, HOMES_MIN_ZOOM, type MapFilter } from '../../../shared/schemas/map.js';
 import * as repo from './home-tiles.repository.js';
 
 /**
@@ -45,3 +45,18 @@ export function createHomeTiles(db: Db, options: { maxBytes?: number } = {}) {
   return { tile, stats: () => ({ hits, misses, entries: cache.size, bytes: cache.calculatedSize }) };
 }
 export type HomeTiles = ReturnType<typeof createHomeTiles>;
+
+/**
+ * A connection's first tile loads PostGIS and the catalogs the query reads (measured 20-300 ms here):
+ * the server builds an empty overview and detail tile on each tile connection when it starts, before
+ * the first map asks.
+ */
+export async function warmTileConnections(db: Db, connections: number) {
+  const nobody = '00000000-0000-0000-0000-000000000000';
+  await Promise.all(
+    Array.from({ length: connections }, async () => {
+      await repo.homesTile(db, nobody, HOMES_DETAIL_MIN_ZOOM - 1, 0, 0, { outcome: undefined });
+      await repo.homesTile(db, nobody, HOMES_DETAIL_MIN_ZOOM, 0, 0, { outcome: undefined });
+    }),
+  );
+}

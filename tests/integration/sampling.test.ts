@@ -100,7 +100,8 @@ describe('sampling plans', () => {
     // Tile features carry the home's short number (ref) as their id.
     const features = Array.from({ length: layer.length }, (_, i) => {
       const f = layer.feature(i);
-      return { ref: f.id, planned: f.properties.planned, outcome: f.properties.outcome };
+      // `planned` is in a feature only when true (absent values are left out of the tile).
+      return { ref: f.id, planned: f.properties.planned === true, outcome: f.properties.outcome };
     });
     const { rows: planRefs } = await app.database.pool.query(`select ref::int as ref, id::text as id from homes where id = any($1::uuid[])`, [detail.homes.map((h) => h.id)]);
     const targetRef = planRefs.find((r) => r.id === target.id)!.ref;

@@ -80,7 +80,8 @@ export const reworkLayer: LayerProps = {
   'source-layer': HOMES_SOURCE_LAYER,
   filter: ['!=', ['get', 'outcome'], 'not_visited'] as never,
   layout: {
-    'icon-image': ['case', ['get', 'rework'], iconName('needs_rework'), iconName('below_action_level')] as never,
+    // Tiles carry `rework` only when it is true.
+    'icon-image': ['case', ['==', ['get', 'rework'], true], iconName('needs_rework'), iconName('below_action_level')] as never,
     'icon-size': ['interpolate', ['linear'], ['zoom'], 12, 0.45, 15, 0.8, 18, 1.2],
     'icon-allow-overlap': true,
   },

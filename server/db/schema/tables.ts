@@ -178,7 +178,7 @@ export const homes = pgTable(
   (t) => [
     uniqueIndex('homes_company_address_unique').on(t.companyId, t.addressKey),
     uniqueIndex('homes_ref_unique').on(t.ref),
-    // homes_tile_idx (company_id, merc_x, merc_y) INCLUDE (…): a covering index, written in migrations 0009 and 0010.
+    // homes_tile_idx (company_id, merc_x, merc_y) INCLUDE (…): a covering index, written in migration 0008.
     index('homes_company_community_idx').on(t.companyId, t.communityId),
     index('homes_company_builder_year_idx').on(t.companyId, t.builderId, t.yearBuilt),
     index('homes_company_outcome_idx').on(t.companyId, t.outcome),
@@ -392,7 +392,7 @@ export const columnMappings = pgTable(
 );
 
 /**
- * When the homes drawn in one homes tile last changed (migration 0012): statement-level triggers give
+ * When the homes drawn in one homes tile last changed (migration 0008): statement-level triggers give
  * each tile a change touches (its own, and a neighbour whose margin shows the home) a new version.
  * A tile is cached under this version and companies.homes_version, which covers changes too wide to
  * list tile by tile (sampling plans, statements of more than 2,000 homes).
@@ -412,7 +412,7 @@ export const homeTileVersions = pgTable(
 );
 
 /**
- * The map's overview marks, kept by database triggers (migration 0009): for each zoom below
+ * The map's overview marks, kept by database triggers (migration 0008): for each zoom below
  * HOMES_DETAIL_MIN_ZOOM, one row per 64-unit cell of the tile grid (8 px on screen) that holds any of a
  * company's homes. An unfiltered overview tile reads a few thousand of these instead of tens of
  * thousands of homes. Cell column and row come from merc_cell() over the home's Web Mercator metres.

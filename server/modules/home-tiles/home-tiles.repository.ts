@@ -3,6 +3,7 @@ import type { DbOrTx } from '../../db/client.js';
 import { HOMES_DETAIL_MIN_ZOOM, HOMES_MAX_TILE_ZOOM, type MapFilter } from '../../../shared/schemas/map.js';
 import { OUTCOMES } from '../../../shared/schemas/enums.js';
 import { IN_WC_TO_PA, PCI_PER_L_TO_BQ_M3 } from '../../../shared/domain/units.js';
+import { plannedHomeIds } from '../homes/homes.repository.js';
 
 /** Side of an overview cell in tile units (4096 per tile; MapLibre draws a tile 512 px wide, so 64 units = 8 px). */
 export const OVERVIEW_CELL_UNITS = 64;
@@ -74,12 +75,8 @@ export function homesTileQuery(companyId: string, z: number, x: number, y: numbe
   const tile = sql`tile as (
       select ST_XMin(e) as x0, ST_YMax(e) as y0, (ST_XMax(e) - ST_XMin(e)) / ${EXTENT} as unit from ST_TileEnvelope(${z}, ${x}, ${y}) e
     )`;
-  // The homes in the latest sampling plan of each community; unvisited, they are drawn as "planned".
-  const plannedHomes = sql`planned_homes as (
-      select home_id from sampling_plan_homes where plan_id in (
-        select distinct on (community_id) id from sampling_plans
-        where company_id = ${companyId} order by community_id, created_at desc, id desc)
-    )`;
+  // Unvisited, these homes are drawn as "planned".
+  const plannedHomes = sql`planned_homes as (${plannedHomeIds(companyId)})`;
   // The homes within BUFFER units around the tile are kept, so symbols on a tile edge are drawn whole.
   const homesInTile = sql`
     from homes h, tile

@@ -5,8 +5,10 @@ import { currentUser } from '../../middleware/auth.js';
 import { validate } from '../../middleware/validate.js';
 import { createHomeTiles } from './home-tiles.service.js';
 
-/** GET /tiles/homes/:z/:x/:y.pbf — the signed-in company's homes as a vector tile, filtered like the map. */
-/** db: the tile connections (Database.tiles). */
+/**
+ * GET /tiles/homes/:z/:x/:y.pbf — the signed-in company's homes as a vector tile, filtered like the map.
+ * db: the tile connections (Database.tiles).
+ */
 export function homeTilesRouter(db: Db): Router {
   const router = Router();
   const homeTiles = createHomeTiles(db);
@@ -19,7 +21,7 @@ export function homeTilesRouter(db: Db): Router {
       // Private: the tile carries one company's customer data. no-cache: the browser revalidates
       // every time (Express answers 304 on an unchanged ETag), so a home whose outcome a visit or
       // test just changed shows on the very next tile request. The server-side cache is keyed on
-      // the company's homes version (see home-tiles.service.ts), so it is never stale either.
+      // the tile's and the company's versions (see home-tiles.service.ts), so it is never stale either.
       'Cache-Control': 'private, no-cache',
       // W3C Server Timing: whether the tile came from the cache or was built, and how long that took.
       'Server-Timing': buildMs == null ? 'tile;desc="cached"' : `tile;desc="built";dur=${buildMs.toFixed(1)}`,

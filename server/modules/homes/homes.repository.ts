@@ -156,16 +156,20 @@ export async function writeSummary(
 }
 
 /** True when the home is in its community's latest sampling plan and not yet visited ("sample this home"). */
+/**
+ * The homes in the latest sampling plan of each of the company's communities: those not yet visited
+ * are "planned" (the home panel says so, and the map draws them with the planned symbol).
+ */
+export const plannedHomeIds = (companyId: string) => sql`
+  select home_id from sampling_plan_homes where plan_id in (
+    select distinct on (community_id) id from sampling_plans
+    where company_id = ${companyId} order by community_id, created_at desc, id desc)`;
+
 export async function isPlannedForSampling(db: DbOrTx, companyId: string, homeId: string) {
   const result = await db.execute<{ planned: boolean }>(sql`
     select exists (
       select 1 from homes h
-      join sampling_plan_homes sph on sph.home_id = h.id
-      where h.company_id = ${companyId} and h.id = ${homeId} and h.outcome = 'not_visited'
-        and sph.plan_id = (
-          select sp.id from sampling_plans sp
-          where sp.company_id = h.company_id and sp.community_id = h.community_id
-          order by sp.created_at desc, sp.id desc limit 1)
+      where h.company_id = ${companyId} and h.id = ${homeId} and h.outcome = 'not_visited' and h.id in (${plannedHomeIds(companyId)})
     ) as planned`);
   return result.rows[0]?.planned === true;
 }

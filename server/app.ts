@@ -1,7 +1,7 @@
 import express, { type Express } from 'express';
 import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
-import { throttleTouch } from './lib/session-store.js';
+import { readUserWithSession, throttleTouch } from './lib/session-store.js';
 import passport from 'passport';
 import helmet from 'helmet';
 import { csrfSync } from 'csrf-sync';
@@ -13,6 +13,7 @@ import { AppError } from './lib/errors.js';
 import { requestId } from './middleware/request-id.js';
 import { errorHandler, notFoundHandler } from './middleware/error-handler.js';
 import { authRouter, configurePassport } from './modules/auth/auth.router.js';
+import { readSession } from './modules/auth/auth.service.js';
 import { usersRouter } from './modules/users/users.router.js';
 import { settingsRouter } from './modules/settings/settings.router.js';
 import { healthRouter } from './modules/health/health.router.js';
@@ -78,7 +79,11 @@ export function createApp({ env, database, storage = createObjectStorage(env) }:
       name: 'tw.sid',
       // Expiry writes at most once a minute per session: a map's burst of tile requests would
       // otherwise each wait on an UPDATE. The idle timeout (at least 5 minutes) may end up to a minute early.
-      store: throttleTouch(new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }), 60_000),
+      // A session and its signed-in user are read in one statement (readSession).
+      store: readUserWithSession(
+        throttleTouch(new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }), 60_000),
+        (sid) => readSession(db, sid),
+      ),
       secret: env.SESSION_SECRET,
       resave: false,
       saveUninitialized: false,

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import session from 'express-session';
-import { throttleTouch } from './session-store.js';
+import { readUserWithSession, throttleTouch, userReadWithSession } from './session-store.js';
 
 /** A memory store that counts the expiry writes it is asked for. */
 function countingStore() {
@@ -52,5 +52,60 @@ describe('throttleTouch', () => {
     for (let i = 0; i < 3; i++) await new Promise<void>((resolve) => touch('a', { cookie } as session.SessionData, (err) => (errors.push(err), resolve())));
     expect(calls).toBe(2);
     expect(errors[0]).toBeInstanceOf(Error);
+  });
+});
+
+describe('readUserWithSession', () => {
+  type User = { id: string; role: string };
+  const stored = { cookie: { originalMaxAge: 60_000, expires: new Date(Date.now() + 60_000).toISOString() }, passport: { user: 'u1' } };
+  function storeReading(found: { sess: unknown; user: User | null } | undefined) {
+    const reads: string[] = [];
+    const store = readUserWithSession(new session.MemoryStore(), async (sid) => {
+      reads.push(sid);
+      return found;
+    });
+    return { store, reads };
+  }
+  /** What express-session does with a stored session: get it, then build the request's session from it. */
+  const load = (store: session.Store, req: object) =>
+    new Promise<session.SessionData | null | undefined>((resolve, reject) =>
+      store.get('s1', (err, sess) => {
+        if (err) return reject(err);
+        if (sess) store.createSession(req as never, sess);
+        resolve(sess);
+      }),
+    );
+
+  it('hands the user read with the session to that request, once', async () => {
+    const { store, reads } = storeReading({ sess: structuredClone(stored), user: { id: 'u1', role: 'sales' } });
+    const req = { sessionID: 's1', sessionStore: store };
+    await load(store, req);
+    expect(reads).toEqual(['s1']);
+    expect(userReadWithSession<User>(req, 'u1')).toEqual({ id: 'u1', role: 'sales' });
+    expect(userReadWithSession<User>(req, 'u1')).toBeUndefined(); // taken: a second ask loads it
+  });
+
+  it('never saves the user into the session', async () => {
+    const { store } = storeReading({ sess: structuredClone(stored), user: { id: 'u1', role: 'sales' } });
+    const sess = await load(store, { sessionID: 's1', sessionStore: store });
+    expect(JSON.stringify(sess)).not.toContain('sales');
+  });
+
+  it('says null for a user who is gone or deactivated, and undefined for another id', async () => {
+    const gone = storeReading({ sess: structuredClone(stored), user: null });
+    const req = { sessionID: 's1', sessionStore: gone.store };
+    await load(gone.store, req);
+    expect(userReadWithSession<User>(req, 'u1')).toBeNull();
+    const other = storeReading({ sess: structuredClone(stored), user: { id: 'u2', role: 'admin' } });
+    const req2 = { sessionID: 's1', sessionStore: other.store };
+    await load(other.store, req2);
+    expect(userReadWithSession<User>(req2, 'u1')).toBeUndefined();
+  });
+
+  it('answers no session when none is stored, and leaves the request without a user', async () => {
+    const { store } = storeReading(undefined);
+    const req = { sessionID: 's1', sessionStore: store };
+    expect(await load(store, req)).toBeNull();
+    expect(userReadWithSession<User>(req, 'u1')).toBeUndefined();
   });
 });

@@ -86,4 +86,47 @@ describe('cross-site request forgery', () => {
     expect(res.status).toBe(201);
     expect((await client.delete(`/api/builders/${res.body.builder.id}`)).status).toBe(204);
   });
+
+  it("applies a user's new role and deactivation on the very next request of a session already open", async () => {
+    const admin = new ApiClient(app.url);
+    await admin.signIn(demoUser('admin'));
+    const email = `role-change-${Date.now()}@example.test`;
+    const created = await admin.post('/api/users', { email, name: 'Role Change', role: 'sales', password: 'long-enough-pass' });
+    expect(created.status).toBe(201);
+    const person = new ApiClient(app.url);
+    await person.signIn(email, 'long-enough-pass');
+    expect((await person.get('/api/auth/session')).body.user.role).toBe('sales');
+    expect((await person.get('/api/users')).status).toBe(403);
+
+    expect((await admin.patch(`/api/users/${created.body.user.id}`, { role: 'admin' })).status).toBe(200);
+    expect((await person.get('/api/auth/session')).body.user.role).toBe('admin');
+    expect((await person.get('/api/users')).status).toBe(200);
+
+    expect((await admin.patch(`/api/users/${created.body.user.id}`, { active: false })).status).toBe(200);
+    expect((await person.get('/api/auth/session')).body.user).toBeNull();
+    expect((await person.get('/api/homes')).status).toBe(401);
+    expect((await person.get('/tiles/homes/14/0/0.pbf')).status).toBe(401);
+  });
+
+  it('reads a signed-in request\'s session and user in one query', async () => {
+    const client = new ApiClient(app.url);
+    await client.signIn(demoUser('estimator'));
+    await client.get('/api/auth/session'); // the session's expiry is written now, then at most once a minute
+    const pool = app.database.pool;
+    const sent: string[] = [];
+    const query = pool.query.bind(pool);
+    pool.query = ((...args: Parameters<typeof query>) => {
+      const text = args[0] as unknown;
+      sent.push(typeof text === 'string' ? text : (text as { text: string }).text);
+      return query(...args);
+    }) as typeof pool.query;
+    try {
+      const res = await client.get('/api/auth/session');
+      expect(res.body.user.email).toBe(demoUser('estimator'));
+    } finally {
+      pool.query = query;
+    }
+    expect(sent).toHaveLength(1);
+    expect(sent[0]).toMatch(/from "session" left join "users"/);
+  });
 });

@@ -1,3 +1,4 @@
+import type { IncomingMessage } from 'node:http';
 import { Router, type RequestHandler } from 'express';
 import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
@@ -6,6 +7,7 @@ import { SignInBody, type SessionUser } from '../../../shared/schemas/auth.js';
 import { AppError } from '../../lib/errors.js';
 import { validate } from '../../middleware/validate.js';
 import { authenticate, loadSessionUser } from './auth.service.js';
+import { userReadWithSession } from '../../lib/session-store.js';
 
 export function configurePassport(db: Db) {
   passport.use(
@@ -15,7 +17,10 @@ export function configurePassport(db: Db) {
   );
   passport.serializeUser((user, done) => done(null, (user as SessionUser).id));
   // Reloaded on every request so a changed role or a deactivated account takes effect at once.
-  passport.deserializeUser((id: string, done) => {
+  passport.deserializeUser((req: IncomingMessage, id: string, done: (err: unknown, user?: SessionUser | false) => void) => {
+    // Usually read in the same statement as the session (readUserWithSession in app.ts).
+    const read = userReadWithSession<SessionUser>(req, id);
+    if (read !== undefined) return done(null, read ?? false);
     loadSessionUser(db, id).then((user) => done(null, user ?? false), done);
   });
 }

@@ -1,7 +1,7 @@
 import type { Db } from '../../db/client.js';
 import type { SessionUser } from '../../../shared/schemas/auth.js';
 import { verifyPassword } from '../../lib/passwords.js';
-import { findSessionUser, findUserForSignIn } from '../users/users.repository.js';
+import { findSessionUser, findSessionWithUser, findUserForSignIn } from '../users/users.repository.js';
 
 // A real hash of a throwaway password, checked when the e-mail is unknown so that
 // response time does not reveal which addresses have accounts.
@@ -19,6 +19,16 @@ export async function loadSessionUser(db: Db, id: string): Promise<SessionUser |
   const row = await findSessionUser(db, id);
   if (!row || !row.active) return null;
   return toSessionUser(row);
+}
+
+/**
+ * A stored session (unexpired) and its signed-in user, read in one statement; the user is null when
+ * the session has none, or when that account is gone or deactivated.
+ */
+export async function readSession(db: Db, sid: string): Promise<{ sess: unknown; user: SessionUser | null } | undefined> {
+  const found = await findSessionWithUser(db, sid);
+  if (!found) return undefined;
+  return { sess: found.sess, user: found.user?.active ? toSessionUser(found.user) : null };
 }
 
 function toSessionUser(row: { id: string; email: string; name: string; role: string; companyId: string; companyName: string }): SessionUser {

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ApiClient, startTestApp, type TestApp } from '../setup/test-app.js';
 import { demoUser, otherCompanyUser } from '../setup/demo.js';
 import { decodeTile, tileFor } from '../setup/tiles.js';
-import { homeCellMismatches } from '../setup/home-cells.js';
+import { homeMapMismatches } from '../setup/home-cells.js';
 import { OUTCOMES } from '../../shared/schemas/enums.js';
 import { HOMES_DETAIL_MIN_ZOOM, HOMES_MAX_TILE_ZOOM, HOMES_MIN_ZOOM } from '../../shared/schemas/map.js';
 import { homesTileQuery, OUTCOME_PRIORITY } from '../../server/modules/home-tiles/home-tiles.repository.js';
@@ -156,7 +156,7 @@ describe('homes vector tiles', () => {
     expect(answers[0].data.length).toBeGreaterThan(0);
     for (const a of answers) expect(Buffer.compare(a.data, answers[0].data)).toBe(0);
     // Once built, from the cache.
-    expect((await tiles.tile(company.id, z, x, y, { outcome: undefined })).buildMs).toBeNull();
+    expect((await tiles.tile(company.id, z, x, y, { outcome: undefined })).source).toBe('cached');
     expect(tiles.stats().misses).toBe(1);
   });
 
@@ -212,7 +212,7 @@ describe('homes vector tiles', () => {
 });
 
 describe('overview cells kept by database triggers (home_cells)', () => {
-  const mismatches = () => homeCellMismatches(app.database.pool);
+  const mismatches = () => homeMapMismatches(app.database.pool);
   async function companyId() {
     const { rows } = await app.database.pool.query(`select company_id from users where email = $1`, [demoUser('technician')]);
     return rows[0].company_id as string;
@@ -225,7 +225,7 @@ describe('overview cells kept by database triggers (home_cells)', () => {
     expect(rows[0].homes).toBe(all.n);
     const { rows: zooms } = await app.database.pool.query(`select distinct z from home_cells order by z`);
     expect(zooms.map((r) => r.z)).toEqual(Array.from({ length: HOMES_DETAIL_MIN_ZOOM - HOMES_MIN_ZOOM }, (_, i) => HOMES_MIN_ZOOM + i));
-    expect(await mismatches()).toBe(0);
+    expect(await mismatches()).toEqual([]);
   });
 
   it('keeps Web Mercator metres equal to PostGIS ST_Transform to EPSG:3857 within a micrometre', async () => {
@@ -238,8 +238,11 @@ describe('overview cells kept by database triggers (home_cells)', () => {
   });
 
   it('ranks outcomes in SQL in the order the tiles name them', async () => {
-    const { rows } = await app.database.pool.query(`select o, outcome_attention_rank(o) as r from unnest($1::text[]) o`, [[...OUTCOMES]]);
-    for (const { o, r } of rows) expect(r).toBe(OUTCOME_PRIORITY.indexOf(o) + 1);
+    const { rows } = await app.database.pool.query(`select o, outcome_attention_rank(o) as r, outcome_of_attention_rank(outcome_attention_rank(o)) as back from unnest($1::text[]) o`, [[...OUTCOMES]]);
+    for (const { o, r, back } of rows) {
+      expect(r).toBe(OUTCOME_PRIORITY.indexOf(o) + 1);
+      expect(back).toBe(o);
+    }
   });
 
   it('follows homes added, moved, re-measured and removed, one at a time and in bulk', async () => {
@@ -254,22 +257,22 @@ describe('overview cells kept by database triggers (home_cells)', () => {
       );
     try {
       await add(3, 'few');
-      expect(await mismatches()).toBe(0);
+      expect(await mismatches()).toEqual([]);
       // Moved across cells, measured, marked for rework: each changes what a cell shows.
       await pool.query(`update homes set location = ST_SetSRID(ST_MakePoint($2, $3), 4326) where address_key = 'CELLCHECK-few|1' and company_id = $1`, [company, home.lon + 0.05, home.lat - 0.04]);
       await pool.query(`update homes set outcome = 'needs_rework', last_vacuum_pa = 187.5, last_post_bq_m3 = 260, rework_flag = true where address_key = 'CELLCHECK-few|2'`);
-      expect(await mismatches()).toBe(0);
+      expect(await mismatches()).toEqual([]);
       await pool.query(`delete from homes where address_key = 'CELLCHECK-few|3'`);
-      expect(await mismatches()).toBe(0);
+      expect(await mismatches()).toEqual([]);
       // More than 5,000 homes in one statement: the company's cells are built again in one pass.
       await add(6000, 'bulk');
-      expect(await mismatches()).toBe(0);
+      expect(await mismatches()).toEqual([]);
       await pool.query(`delete from homes where address_key like 'CELLCHECK-bulk|%'`);
-      expect(await mismatches()).toBe(0);
+      expect(await mismatches()).toEqual([]);
     } finally {
       await pool.query(`delete from homes where address_key like 'CELLCHECK-%'`);
     }
-    expect(await mismatches()).toBe(0);
+    expect(await mismatches()).toEqual([]);
   });
 
   it('stays right when two transactions change homes of one cell at the same time', async () => {
@@ -297,13 +300,13 @@ describe('overview cells kept by database triggers (home_cells)', () => {
       await first.query('commit');
       await secondUpdate;
       await second.query('commit');
-      expect(await mismatches()).toBe(0);
+      expect(await mismatches()).toEqual([]);
     } finally {
       first.release();
       second.release();
       await pool.query(`delete from homes where address_key like 'SAMECELL|%'`);
     }
-    expect(await mismatches()).toBe(0);
+    expect(await mismatches()).toEqual([]);
   });
 
   it('draws the same overview tile from the kept cells as from counting the homes', async () => {
@@ -333,6 +336,84 @@ describe('overview cells kept by database triggers (home_cells)', () => {
     } finally {
       await app.database.pool.query(`update homes set outcome = $2, rework_flag = $3, last_vacuum_pa = $4 where id = $1`, [home.id, was.outcome, was.rework_flag, was.last_vacuum_pa]);
     }
+  });
+});
+
+describe('tiles stored by database triggers (home_tiles)', () => {
+  const lonInsideEastEdge = (z: number, x: number, units: number) => ((x + 1 - units / 4096) / 2 ** z) * 360 - 180;
+  async function company() {
+    const { rows } = await app.database.pool.query(`select company_id from users where email = $1`, [demoUser('technician')]);
+    return rows[0].company_id as string;
+  }
+  async function storedFeature(z: number, x: number, y: number, ref: number) {
+    const { rows } = await app.database.pool.query(`select mvt from home_tiles where company_id = $1 and z = $2 and x = $3 and y = $4`, [await company(), z, x, y]);
+    if (!rows[0]) return undefined;
+    const layer = decodeTile(new Uint8Array(rows[0].mvt)).layers.homes;
+    const f = Array.from({ length: layer.length }, (_, i) => layer.feature(i)).find((g) => g.id === ref);
+    return f && { properties: f.properties, point: f.loadGeometry()[0][0] };
+  }
+
+  it('stores every unfiltered tile from zoom 11 to 14 that shows a home, each as a tile built now would draw it', async () => {
+    const { rows } = await app.database.pool.query(`select array_agg(distinct z order by z) as zooms, count(*)::int as n from home_tiles`);
+    expect(rows[0].zooms).toEqual([11, 12, 13, 14]);
+    expect(rows[0].n).toBeGreaterThan(4);
+    expect(await homeMapMismatches(app.database.pool)).toEqual([]);
+  });
+
+  it('serves unfiltered tiles up to zoom 14 from the store, and builds filtered and deeper ones', async () => {
+    const at = (z: number) => tileFor(home.lon, home.lat, z);
+    const path = (z: number, query = '') => `/tiles/homes/${z}/${at(z).x}/${at(z).y}.pbf${query}`;
+    for (const z of [HOMES_MIN_ZOOM, HOMES_DETAIL_MIN_ZOOM]) expect((await fetchTile(tech, path(z, `?stored=${z}`))).timing).toMatch(/stored|cached/);
+    expect((await fetchTile(tech, path(HOMES_DETAIL_MIN_ZOOM, '?outcome=not_visited'))).timing).toContain('built');
+    expect((await fetchTile(tech, path(HOMES_DETAIL_MIN_ZOOM + 1))).timing).toMatch(/built|cached/);
+  });
+
+  it('draws a home on a tile edge in the neighbour tile it reaches, and takes it out when the home goes', async () => {
+    const z = HOMES_DETAIL_MIN_ZOOM;
+    const { x, y } = tileFor(home.lon, home.lat, z);
+    const { rows: [edge] } = await app.database.pool.query(
+      `insert into homes (company_id, number, street, city, state, zip, address_key, location, outcome)
+       values ($1, '1', 'Stored Edge Row', 'Testville', 'ZZ', '00001', 'STORED-EDGE|1', ST_SetSRID(ST_MakePoint($2, $3), 4326), 'not_visited') returning ref::int as ref`,
+      [await company(), lonInsideEastEdge(z, x, 10), home.lat],
+    );
+    try {
+      expect((await storedFeature(z, x, y, edge.ref))?.properties.outcome).toBe('not_visited');
+      const inNeighbour = await storedFeature(z, x + 1, y, edge.ref);
+      expect(inNeighbour?.point.x).toBeLessThan(0); // in the neighbour's margin (MVT spec 2.1 §4.3)
+      await app.database.pool.query(`update homes set outcome = 'needs_rework', rework_flag = true where ref = $1`, [edge.ref]);
+      expect((await storedFeature(z, x + 1, y, edge.ref))?.properties).toMatchObject({ outcome: 'needs_rework', rework: true });
+    } finally {
+      await app.database.pool.query(`delete from homes where address_key = 'STORED-EDGE|1'`);
+    }
+    expect(await storedFeature(z, x, y, edge.ref)).toBeUndefined();
+    expect(await storedFeature(z, x + 1, y, edge.ref)).toBeUndefined();
+    expect(await homeMapMismatches(app.database.pool)).toEqual([]);
+  });
+
+  it('draws the homes of a new sampling plan as planned, and the homes of the plan it replaces as before', async () => {
+    const pool = app.database.pool;
+    const { rows: [target] } = await pool.query(
+      `select h.id, h.ref::int as ref, h.community_id, ST_X(h.location) as lon, ST_Y(h.location) as lat from homes h
+       where h.company_id = $1 and h.outcome = 'not_visited' and h.community_id is not null
+         and h.id not in (select home_id from planned_home_ids($1)) limit 1`,
+      [await company()],
+    );
+    const { z, x, y } = tileFor(target.lon, target.lat, HOMES_DETAIL_MIN_ZOOM);
+    expect((await storedFeature(z, x, y, target.ref))?.properties.planned).toBeUndefined();
+    const { rows: [plan] } = await pool.query(
+      `insert into sampling_plans (company_id, community_id, margin_of_error, expected_rate, sample_size) values ($1, $2, 0.1, 0.3, 1) returning id`,
+      [await company(), target.community_id],
+    );
+    try {
+      await pool.query(`insert into sampling_plan_homes (plan_id, home_id) values ($1, $2)`, [plan.id, target.id]);
+      expect((await storedFeature(z, x, y, target.ref))?.properties.planned).toBe(true);
+      // Homes of the community's plan before this one are no longer planned; the overview marks follow too.
+      expect(await homeMapMismatches(pool)).toEqual([]);
+    } finally {
+      await pool.query(`delete from sampling_plans where id = $1`, [plan.id]);
+    }
+    expect((await storedFeature(z, x, y, target.ref))?.properties.planned).toBeUndefined();
+    expect(await homeMapMismatches(pool)).toEqual([]);
   });
 });
 
@@ -372,7 +453,8 @@ describe('which cached tiles a change makes stale (home_tile_versions)', () => {
       expect(neighbourAfter.timing).toContain('built');
       expect(neighbourAfter.outcome).toBe('needs_rework');
       expect(neighbourAfter.point!.x).toBeLessThan(0); // in the neighbour's margin (MVT spec 2.1 §4.3: coordinates may lie outside the extent)
-      expect((await fetchTile(tech, overview)).timing).toContain('built');
+      // Overview tiles are stored: encoded again by the trigger, read from home_tiles.
+      expect((await fetchTile(tech, overview)).timing).toContain('stored');
       expect((await fetchTile(tech, far)).timing).toContain('cached');
       // A change to what no tile draws (the owner's name) leaves every tile cached.
       await app.database.pool.query(`update homes set owner_name = 'Tile Edge Owner' where ref = $1`, [edge.ref]);

@@ -8,7 +8,7 @@ import { demoUser, otherCompanyUser } from '../setup/demo.js';
 import { startFakeGeocoder, type FakeGeocoder } from '../../server/fakes/geocoder.js';
 import { addressKey } from '../../shared/domain/address.js';
 import { importCsv, uploadCsv, waitForImport } from './imports-support.js';
-import { homeCellMismatches } from '../setup/home-cells.js';
+import { homeMapMismatches } from '../setup/home-cells.js';
 
 const fixture = (name: string) => fs.readFileSync(new URL(`../fixtures/${name}`, import.meta.url));
 const streets = JSON.parse(fs.readFileSync(new URL('../../data/demo/streets.geojson', import.meta.url), 'utf8')) as {
@@ -67,7 +67,7 @@ describe('importing a clean file, then re-importing a changed copy, then undoing
 
     afterFirst = await homesAt(CLEAN_KEYS);
     // The map's overview cells, refreshed once at the end of the import's transaction, match the homes.
-    expect(await homeCellMismatches(app.database.pool)).toBe(0);
+    expect(await homeMapMismatches(app.database.pool)).toEqual([]);
     expect(afterFirst).toHaveLength(12);
     const byKey = new Map(afterFirst.map((h) => [h.address_key, h]));
     for (const h of afterFirst) expect(h.row.outcome).toBe('not_visited');
@@ -111,7 +111,7 @@ describe('importing a clean file, then re-importing a changed copy, then undoing
     const { started, job } = await importCsv(estimator, fixture('addresses-reimport.csv'), { fileName: 'addresses-reimport.csv' });
     secondId = started.id;
     expect(job.counts).toEqual({ rows: 12, inserted: 0, updated: 3, unchanged: 9, rejected: 0 });
-    expect(await homeCellMismatches(app.database.pool)).toBe(0);
+    expect(await homeMapMismatches(app.database.pool)).toEqual([]);
     const after = await homesAt(CLEAN_KEYS);
     expect(after).toHaveLength(12);
     const { rows } = await app.database.pool.query(
@@ -153,13 +153,13 @@ describe('importing a clean file, then re-importing a changed copy, then undoing
     expect(undo.body.import.undoneAt).not.toBeNull();
     // Whole rows, every column including updated_at and the exact geometry bytes.
     expect(await homesAt(CLEAN_KEYS)).toEqual(afterFirst);
-    expect(await homeCellMismatches(app.database.pool)).toBe(0);
+    expect(await homeMapMismatches(app.database.pool)).toEqual([]);
     expect((await estimator.post(`/api/imports/${secondId}/undo`)).status).toBe(409);
 
     const undoFirst = await estimator.post(`/api/imports/${firstId}/undo`);
     expect(undoFirst.status).toBe(200);
     expect(await homesAt(CLEAN_KEYS)).toEqual([]);
-    expect(await homeCellMismatches(app.database.pool)).toBe(0);
+    expect(await homeMapMismatches(app.database.pool)).toEqual([]);
 
     const history = await estimator.get('/api/imports');
     const entries = history.body.imports.filter((i: { id: string }) => i.id === firstId || i.id === secondId);

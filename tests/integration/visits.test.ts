@@ -6,6 +6,7 @@ import sharp from 'sharp';
 import { ApiClient, startTestApp, type TestApp } from '../setup/test-app.js';
 import { demoUser, otherCompanyUser } from '../setup/demo.js';
 import { decodeTile, tileFor } from '../setup/tiles.js';
+import { homeMapMismatches } from '../setup/home-cells.js';
 import { startFakeS3, type FakeS3 } from '../../server/fakes/s3.js';
 
 let s3: FakeS3;
@@ -199,6 +200,13 @@ describe('recording a visit', () => {
     const outcomes = new Map<unknown, unknown>();
     for (let i = 0; i < layer.length; i++) outcomes.set(layer.feature(i).id, layer.feature(i).properties.outcome);
     expect(outcomes.get(home.ref)).toBe('needs_rework');
+    // So do the stored tiles (zooms 11 to 14) and overview cells, re-encoded when the visit and tests were written.
+    const stored = tileFor(home.lon, home.lat, 14);
+    const storedRes = await fetch(`${app.url}/tiles/homes/${stored.z}/${stored.x}/${stored.y}.pbf`, { headers: { Cookie: tech.cookie } });
+    const storedLayer = decodeTile(new Uint8Array(await storedRes.arrayBuffer())).layers.homes;
+    const drawn = Array.from({ length: storedLayer.length }, (_, i) => storedLayer.feature(i)).find((f) => f.id === home.ref);
+    expect(drawn?.properties.outcome).toBe('needs_rework');
+    expect(await homeMapMismatches(app.database.pool)).toEqual([]);
   });
 
   it('stores a visit sent twice with the same id once, answering the retry with 200 and the same visit', async () => {

@@ -33,7 +33,8 @@ export async function startServerProcess(port: number, extraEnv: Record<string, 
       ...(s3 ? { S3_ENDPOINT: s3.url } : {}),
       ...extraEnv,
     },
-    stdio: ['ignore', 'ignore', 'inherit'],
+    // The server's log (stdout) is shown only when a bench asks for it (BENCH_LOG_LEVEL): the import's stage timings.
+    stdio: ['ignore', process.env.BENCH_LOG_LEVEL ? 'inherit' : 'ignore', 'inherit'],
   });
   if (s3) child.once('exit', () => void s3.close());
   const deadline = Date.now() + 30_000;

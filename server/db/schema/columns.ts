@@ -10,3 +10,8 @@ export const pointGeometry = customType<{ data: string; driverData: string }>({
 export const multiPolygonGeometry = customType<{ data: string; driverData: string }>({
   dataType: () => 'geometry(MultiPolygon,4326)',
 });
+
+/** Raw bytes (PostgreSQL bytea), as a Buffer. */
+export const bytes = customType<{ data: Buffer; driverData: Buffer }>({
+  dataType: () => 'bytea',
+});

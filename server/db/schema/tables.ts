@@ -17,7 +17,7 @@ import {
   varchar,
   json,
 } from 'drizzle-orm/pg-core';
-import { multiPolygonGeometry, pointGeometry } from './columns.js';
+import { bytes, multiPolygonGeometry, pointGeometry } from './columns.js';
 
 const id = () => uuid('id').primaryKey().defaultRandom();
 const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
@@ -436,6 +436,26 @@ export const homeCells = pgTable(
     rework: boolean('rework').notNull(),
   },
   (t) => [primaryKey({ columns: [t.companyId, t.z, t.cx, t.cy] })],
+);
+
+/**
+ * Unfiltered homes tiles from zoom 11 to 14, encoded (Mapbox Vector Tile) when the homes or sampling
+ * plans they draw change, by the same database triggers that keep home_cells (migration 0009). A tile
+ * with no homes has no row. Filtered tiles and the deeper zooms are built on request by the same SQL
+ * function, homes_tile_mvt().
+ */
+export const homeTiles = pgTable(
+  'home_tiles',
+  {
+    companyId: uuid('company_id')
+      .notNull()
+      .references(() => companies.id, { onDelete: 'cascade' }),
+    z: integer('z').notNull(),
+    x: integer('x').notNull(),
+    y: integer('y').notNull(),
+    mvt: bytes('mvt').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.companyId, t.z, t.x, t.y] })],
 );
 
 /** A plan of which homes to sample in a community (Cochran sample size, spatially spread). */

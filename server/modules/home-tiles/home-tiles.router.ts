@@ -15,7 +15,7 @@ export function homeTilesRouter(db: Db): Router {
   router.get('/:z/:x/:y.pbf', validate({ params: TileParams, query: MapFilter }), async (req, res) => {
     const user = currentUser(req);
     const { z, x, y } = req.params as unknown as { z: number; x: number; y: number };
-    const { data, buildMs } = await homeTiles.tile(user.companyId, z, x, y, req.query as unknown as MapFilter);
+    const { data, source, ms } = await homeTiles.tile(user.companyId, z, x, y, req.query as unknown as MapFilter);
     res.set({
       'Content-Type': 'application/x-protobuf',
       // Private: the tile carries one company's customer data. no-cache: the browser revalidates
@@ -23,8 +23,8 @@ export function homeTilesRouter(db: Db): Router {
       // test just changed shows on the very next tile request. The server-side cache is keyed on
       // the tile's and the company's versions (see home-tiles.service.ts), so it is never stale either.
       'Cache-Control': 'private, no-cache',
-      // W3C Server Timing: whether the tile came from the cache or was built, and how long that took.
-      'Server-Timing': buildMs == null ? 'tile;desc="cached"' : `tile;desc="built";dur=${buildMs.toFixed(1)}`,
+      // W3C Server Timing: whether the tile came from the cache, from the stored tiles or was built, and how long that took.
+      'Server-Timing': ms == null ? `tile;desc="${source}"` : `tile;desc="${source}";dur=${ms.toFixed(1)}`,
     });
     res.send(data);
   });

@@ -1,6 +1,6 @@
 import { LRUCache } from 'lru-cache';
 import type { Db } from '../../db/client.js';
-import { HOMES_DETAIL_MIN_ZOOM, HOMES_MIN_ZOOM, type MapFilter } from '../../../shared/schemas/map.js';
+import { HOMES_DETAIL_MIN_ZOOM, HOMES_MAX_TILE_ZOOM, HOMES_MIN_ZOOM, type MapFilter } from '../../../shared/schemas/map.js';
 import * as repo from './home-tiles.repository.js';
 
 /**
@@ -9,6 +9,9 @@ import * as repo from './home-tiles.repository.js';
  * is never served stale: the next request after a visit, an import or an edit builds the tiles that
  * draw the changed homes anew, and the rest of the map stays cached.
  */
+/** Where a tile came from: the server's cache, the tiles the database stores (home_tiles), or built now. */
+export type TileSource = 'cached' | 'stored' | 'built';
+
 export function createHomeTiles(db: Db, options: { maxBytes?: number } = {}) {
   const cache = new LRUCache<string, Buffer>({
     maxSize: options.maxBytes ?? 64 * 1024 * 1024,
@@ -16,19 +19,22 @@ export function createHomeTiles(db: Db, options: { maxBytes?: number } = {}) {
   });
   // Tiles being built: a map opened in several tabs, or by several people, asks for the same tiles at
   // once; they wait on one build.
-  const building = new Map<string, Promise<Buffer>>();
+  const building = new Map<string, Promise<{ data: Buffer; stored: boolean }>>();
   let hits = 0;
   let misses = 0;
 
-  /** The tile, and how long building it took (null when it came from the cache). */
-  async function tile(companyId: string, z: number, x: number, y: number, filter: MapFilter): Promise<{ data: Buffer; buildMs: number | null }> {
-    if (z < HOMES_MIN_ZOOM) return { data: Buffer.alloc(0), buildMs: null };
+  /**
+   * The tile; where it came from (this cache, the tiles the database stores, or built now); and how
+   * long reading or building it took (null from the cache).
+   */
+  async function tile(companyId: string, z: number, x: number, y: number, filter: MapFilter): Promise<{ data: Buffer; source: TileSource; ms: number | null }> {
+    if (z < HOMES_MIN_ZOOM) return { data: Buffer.alloc(0), source: 'cached', ms: null };
     const version = await repo.tileVersions(db, companyId, z, x, y);
     const key = [companyId, version.company, version.tile, z, x, y, filter.builderId ?? '', filter.communityId ?? '', filter.yearFrom ?? '', filter.yearTo ?? '', (filter.outcome ?? []).join(',')].join('|');
     const cached = cache.get(key);
     if (cached) {
       hits++;
-      return { data: cached, buildMs: null };
+      return { data: cached, source: 'cached', ms: null };
     }
     const started = performance.now();
     let pending = building.get(key);
@@ -36,10 +42,10 @@ export function createHomeTiles(db: Db, options: { maxBytes?: number } = {}) {
       misses++;
       pending = repo.homesTile(db, companyId, z, x, y, filter).finally(() => building.delete(key));
       building.set(key, pending);
-      pending.then((built) => cache.set(key, built), () => undefined);
+      pending.then((read) => cache.set(key, read.data), () => undefined);
     }
-    const built = await pending;
-    return { data: built, buildMs: performance.now() - started };
+    const read = await pending;
+    return { data: read.data, source: read.stored ? 'stored' : 'built', ms: performance.now() - started };
   }
 
   return { tile, stats: () => ({ hits, misses, entries: cache.size, bytes: cache.calculatedSize }) };
@@ -48,14 +54,15 @@ export type HomeTiles = ReturnType<typeof createHomeTiles>;
 
 /**
  * A connection's first tile loads PostGIS and the catalogs the query reads (measured 20-300 ms here):
- * the server builds an empty overview and detail tile on each tile connection when it starts, before
- * the first map asks.
+ * the server builds an empty overview and detail tile, and reads a stored one, on each tile connection
+ * when it starts, before the first map asks.
  */
 export async function warmTileConnections(db: Db, connections: number) {
   const nobody = '00000000-0000-0000-0000-000000000000';
   await Promise.all(
     Array.from({ length: connections }, async () => {
-      await repo.homesTile(db, nobody, HOMES_DETAIL_MIN_ZOOM - 1, 0, 0, { outcome: undefined });
+      await db.execute(repo.homesTileQuery(nobody, HOMES_DETAIL_MIN_ZOOM - 1, 0, 0, { outcome: undefined }));
+      await db.execute(repo.homesTileQuery(nobody, HOMES_MAX_TILE_ZOOM, 0, 0, { outcome: undefined }));
       await repo.homesTile(db, nobody, HOMES_DETAIL_MIN_ZOOM, 0, 0, { outcome: undefined });
     }),
   );

@@ -160,10 +160,7 @@ export async function writeSummary(
  * The homes in the latest sampling plan of each of the company's communities: those not yet visited
  * are "planned" (the home panel says so, and the map draws them with the planned symbol).
  */
-export const plannedHomeIds = (companyId: string) => sql`
-  select home_id from sampling_plan_homes where plan_id in (
-    select distinct on (community_id) id from sampling_plans
-    where company_id = ${companyId} order by community_id, created_at desc, id desc)`;
+export const plannedHomeIds = (companyId: string) => sql`select home_id from planned_home_ids(${companyId}::uuid)`;
 
 export async function isPlannedForSampling(db: DbOrTx, companyId: string, homeId: string) {
   const result = await db.execute<{ planned: boolean }>(sql`

@@ -190,10 +190,13 @@ export async function deferHomeCells(db: Queryable) {
   await db.query(`select set_config('tractwise.home_cells_deferred', 'on', true)`);
 }
 
-/** The overview cells where the batch's homes now are, and where its updated homes were, counted again (then no longer deferred). */
+/**
+ * The map where the batch's homes now are, and where its updated homes were, made current: overview
+ * cells counted again and stored tiles encoded again (then no longer deferred).
+ */
 export async function refreshHomeCellsOfBatch(db: Queryable, companyId: string, batchId: string) {
   await db.query(
-    `select refresh_home_cells_at(array_agg(company_id), array_agg(x), array_agg(y)) from (
+    `select refresh_home_map_at(array_agg(company_id), array_agg(x), array_agg(y)) from (
        select h.company_id, h.merc_x as x, h.merc_y as y from import_changes c join homes h on h.id = c.home_id where c.batch_id = $2
        union all
        select $1::uuid, (c.previous->>'merc_x')::float8, (c.previous->>'merc_y')::float8 from import_changes c where c.batch_id = $2 and c.action = 'updated'

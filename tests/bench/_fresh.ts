@@ -1,0 +1,3 @@
+import { freshBenchDatabase } from './support.js';
+const d = await freshBenchDatabase();
+await d.close();

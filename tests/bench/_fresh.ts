@@ -1,3 +1,0 @@
-import { freshBenchDatabase } from './support.js';
-const d = await freshBenchDatabase();
-await d.close();

@@ -108,4 +108,13 @@ describe('readUserWithSession', () => {
     expect(await load(store, req)).toBeNull();
     expect(userReadWithSession<User>(req, 'u1')).toBeUndefined();
   });
+
+  it('answers no session, and does not hang, for a stored value that is not an object', async () => {
+    for (const sess of [null, 42, 'null', '"text"']) {
+      const { store } = storeReading({ sess, user: { id: 'u1', role: 'sales' } });
+      const req = { sessionID: 's1', sessionStore: store };
+      expect(await load(store, req)).toBeFalsy();
+      expect(userReadWithSession<User>(req, 'u1')).toBeUndefined();
+    }
+  });
 });

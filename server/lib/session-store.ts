@@ -57,6 +57,8 @@ export function readUserWithSession<S extends Store, U>(
         } catch {
           return store.destroy(sid, (err?: unknown) => callback(err));
         }
+        // A stored value that is not an object (null, a number) is no session: drop it, as unreadable JSON is.
+        if (sess === null || typeof sess !== 'object') return store.destroy(sid, (err?: unknown) => callback(err));
         // Not enumerable: express-session neither copies nor saves it; createSession hands it to the request.
         Object.defineProperty(sess, USER_READ_WITH_SESSION, { value: found.user, enumerable: false });
         callback(null, sess as never);

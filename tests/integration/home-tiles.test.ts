@@ -171,6 +171,12 @@ describe('homes vector tiles', () => {
     const res = await fetchTile(tech, '/tiles/homes/14/0/0.pbf');
     expect(res.status).toBe(200);
     expect(Object.keys(decodeTile(res.body).layers)).toEqual([]);
+    // Below the homes zooms, over the town: empty too, and said so.
+    const { x, y } = tileFor(home.lon, home.lat, HOMES_MIN_ZOOM - 1);
+    const above = await fetchTile(tech, `/tiles/homes/${HOMES_MIN_ZOOM - 1}/${x}/${y}.pbf`);
+    expect(above.status).toBe(200);
+    expect(Object.keys(decodeTile(above.body).layers)).toEqual([]);
+    expect(above.timing).toBe('tile;desc="none"');
   });
 
   it("never draws another company's homes", async () => {
@@ -413,6 +419,88 @@ describe('tiles stored by database triggers (home_tiles)', () => {
       await pool.query(`delete from sampling_plans where id = $1`, [plan.id]);
     }
     expect((await storedFeature(z, x, y, target.ref))?.properties.planned).toBeUndefined();
+    expect(await homeMapMismatches(pool)).toEqual([]);
+  });
+  it('stores the tiles of homes at the edges of the Web Mercator square, whose margins reach past it', async () => {
+    // Longitude ±180 and latitude ±85.0511 are the square's edges (EPSG:3857); tile columns and rows run 0 to 2^z - 1.
+    const corners = [[179.99999, 85.05], [-180, -85.06], [180, 0], [-179.99999, 85.0511]];
+    try {
+      await app.database.pool.query(
+        `insert into homes (company_id, number, street, city, state, zip, address_key, location, outcome)
+         select $1, c.n::text, 'World Edge Row', 'Testville', 'ZZ', '00001', 'WORLD-EDGE|' || c.n, ST_SetSRID(ST_MakePoint(c.lon, c.lat), 4326), 'not_visited'
+         from unnest($2::float8[], $3::float8[]) with ordinality as c(lon, lat, n)`,
+        [await company(), corners.map((c) => c[0]), corners.map((c) => c[1])],
+      );
+      await app.database.pool.query(`update homes set outcome = 'declined' where address_key like 'WORLD-EDGE|%'`);
+      const { rows } = await app.database.pool.query(
+        `select z, x, y from home_tiles where company_id = $1 and (x = 0 or y = 0 or x = (1 << z) - 1 or y = (1 << z) - 1) order by z, x, y`,
+        [await company()],
+      );
+      // Per zoom: the two north corners, the south-west corner (latitude clamped to the square), and at
+      // longitude 180 on the equator the last column's two tiles meeting there (the point is on both margins).
+      const expected = [11, 12, 13, 14].flatMap((z) => {
+        const last = 2 ** z - 1;
+        const half = 2 ** (z - 1);
+        return [{ z, x: 0, y: 0 }, { z, x: 0, y: last }, { z, x: last, y: 0 }, { z, x: last, y: half - 1 }, { z, x: last, y: half }];
+      });
+      expect(rows).toEqual(expected);
+      const last = (1 << HOMES_MIN_ZOOM) - 1;
+      const tile = await fetchTile(tech, `/tiles/homes/${HOMES_MIN_ZOOM}/${last}/0.pbf`);
+      expect(tile.status).toBe(200);
+      expect(decodeTile(tile.body).layers.homes.length).toBeGreaterThan(0);
+      expect(await homeMapMismatches(app.database.pool)).toEqual([]);
+    } finally {
+      await app.database.pool.query(`delete from homes where address_key like 'WORLD-EDGE|%'`);
+    }
+    expect(await homeMapMismatches(app.database.pool)).toEqual([]);
+  });
+
+  it('lets a sampling plan and a visit of the company through while an import writes its homes, with no deadlock', async () => {
+    // An import defers its map until its homes are written (tractwise.home_cells_deferred), then refreshes
+    // it in one statement. Before then it holds neither the map's advisory lock nor the company's row.
+    const pool = app.database.pool;
+    const { rows: [target] } = await pool.query(
+      `select id, community_id, last_vacuum_pa from homes where company_id = $1 and community_id is not null and outcome = 'not_visited' limit 1`,
+      [await company()],
+    );
+    const importing = await pool.connect();
+    const other = await pool.connect();
+    let planId: string | undefined;
+    try {
+      await importing.query('begin');
+      await importing.query(`select set_config('tractwise.home_cells_deferred', 'on', true)`);
+      await importing.query(
+        `insert into homes (company_id, number, street, city, state, zip, address_key, location, outcome)
+         select $1, g::text, 'Deferred Import Row', 'Testville', 'ZZ', '00001', 'DEFERRED|' || g,
+                ST_SetSRID(ST_MakePoint($2 + (g % 50) * 0.0001, $3 + (g / 50) * 0.0001), 4326), 'not_visited'
+         from generate_series(1, 2500) g`,
+        [await company(), home.lon + 0.03, home.lat - 0.03],
+      );
+      await other.query(`set lock_timeout = '5s'`);
+      await other.query('begin');
+      const { rows: [plan] } = await other.query(
+        `insert into sampling_plans (company_id, community_id, margin_of_error, expected_rate, sample_size) values ($1, $2, 0.1, 0.3, 1) returning id`,
+        [await company(), target.community_id],
+      );
+      planId = plan.id;
+      await other.query(`insert into sampling_plan_homes (plan_id, home_id) values ($1, $2)`, [plan.id, target.id]);
+      await other.query(`update homes set last_vacuum_pa = 90 where id = $1`, [target.id]);
+      await other.query('commit');
+      await importing.query(
+        `select refresh_home_map_at(array_agg(company_id), array_agg(merc_x), array_agg(merc_y)) from homes where address_key like 'DEFERRED|%'`,
+      );
+      await importing.query('commit');
+      expect(await homeMapMismatches(pool)).toEqual([]);
+    } finally {
+      await importing.query('rollback').catch(() => undefined);
+      await other.query('rollback').catch(() => undefined);
+      await other.query(`reset lock_timeout`);
+      importing.release();
+      other.release();
+      if (planId) await pool.query(`delete from sampling_plans where id = $1`, [planId]);
+      await pool.query(`update homes set last_vacuum_pa = $2 where id = $1`, [target.id, target.last_vacuum_pa]);
+      await pool.query(`delete from homes where address_key like 'DEFERRED|%'`);
+    }
     expect(await homeMapMismatches(pool)).toEqual([]);
   });
 });

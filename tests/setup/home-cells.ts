@@ -18,7 +18,7 @@ export async function homeCellMismatches(pool: pg.Pool): Promise<number> {
 
 /**
  * The stored tiles (home_tiles) that differ from a tile built now: every tile from zoom 11 to 14 that
- * shows a home (the tile holding it, and a neighbour whose 64-unit margin reaches it), and every stored
+ * shows a home (the tile holding it, and a neighbour inside the square whose 64-unit margin reaches it), and every stored
  * one. Compared feature by feature, since PostgreSQL may hand the rows to the encoder in another order.
  */
 export async function storedTileMismatches(pool: pg.Pool): Promise<string[]> {
@@ -29,6 +29,7 @@ export async function storedTileMismatches(pool: pg.Pool): Promise<string[]> {
         lateral (select 40075016.685578488 / 2 ^ z.z as size) s,
         lateral (select floor((h.merc_x + 20037508.342789244 + d.d * (s.size / 64 + 1)) / s.size)::int as t from (values (-1), (1)) as d(d)) tx,
         lateral (select floor((20037508.342789244 - h.merc_y + d.d * (s.size / 64 + 1)) / s.size)::int as t from (values (-1), (1)) as d(d)) ty
+      where tx.t between 0 and (1 << z.z) - 1 and ty.t between 0 and (1 << z.z) - 1 -- tiles of the Web Mercator square only
       union
       select company_id, z, x, y from home_tiles
     )

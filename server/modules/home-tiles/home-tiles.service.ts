@@ -10,7 +10,8 @@ import * as repo from './home-tiles.repository.js';
  * draw the changed homes anew, and the rest of the map stays cached.
  */
 /** Where a tile came from: the server's cache, the tiles the database stores (home_tiles), or built now. */
-export type TileSource = 'cached' | 'stored' | 'built';
+/** Where a tile came from; 'none' below the zooms that draw homes (an empty tile, nothing read). */
+export type TileSource = 'cached' | 'stored' | 'built' | 'none';
 
 export function createHomeTiles(db: Db, options: { maxBytes?: number } = {}) {
   const cache = new LRUCache<string, Buffer>({
@@ -24,11 +25,11 @@ export function createHomeTiles(db: Db, options: { maxBytes?: number } = {}) {
   let misses = 0;
 
   /**
-   * The tile; where it came from (this cache, the tiles the database stores, or built now); and how
-   * long reading or building it took (null from the cache).
+   * The tile; where it came from (this cache, the tiles the database stores, built now, or none below
+   * the homes zooms); and how long reading or building it took (null from the cache and for none).
    */
   async function tile(companyId: string, z: number, x: number, y: number, filter: MapFilter): Promise<{ data: Buffer; source: TileSource; ms: number | null }> {
-    if (z < HOMES_MIN_ZOOM) return { data: Buffer.alloc(0), source: 'cached', ms: null };
+    if (z < HOMES_MIN_ZOOM) return { data: Buffer.alloc(0), source: 'none', ms: null };
     const version = await repo.tileVersions(db, companyId, z, x, y);
     const key = [companyId, version.company, version.tile, z, x, y, filter.builderId ?? '', filter.communityId ?? '', filter.yearFrom ?? '', filter.yearTo ?? '', (filter.outcome ?? []).join(',')].join('|');
     const cached = cache.get(key);

@@ -182,17 +182,18 @@ export async function insertHomes(db: Queryable, companyId: string, batchId: str
 }
 
 /**
- * The map's overview cells (home_cells) are refreshed by triggers after each statement; an import's
- * statements of 5,000 rows would count the same cells again and again. This transaction takes that on:
- * call refreshHomeCellsOfBatch once its homes are written.
+ * What the map draws (tile versions, overview cells, stored tiles) is refreshed by triggers after each
+ * statement; an import's statements of 5,000 rows would count the same cells and encode the same tiles
+ * again and again, and hold the company's map locks from its first statement. This transaction takes
+ * that on: call refreshHomeCellsOfBatch once its homes are written.
  */
 export async function deferHomeCells(db: Queryable) {
   await db.query(`select set_config('tractwise.home_cells_deferred', 'on', true)`);
 }
 
 /**
- * The map where the batch's homes now are, and where its updated homes were, made current: overview
- * cells counted again and stored tiles encoded again (then no longer deferred).
+ * The map where the batch's homes now are, and where its updated homes were, made current: cached tiles
+ * given new versions, overview cells counted again and stored tiles encoded again (then no longer deferred).
  */
 export async function refreshHomeCellsOfBatch(db: Queryable, companyId: string, batchId: string) {
   await db.query(

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { sql } from 'drizzle-orm';
 import { ApiClient, startTestApp, type TestApp } from '../setup/test-app.js';
 import { demoUser, otherCompanyUser } from '../setup/demo.js';
 import { decodeTile, tileFor } from '../setup/tiles.js';
@@ -7,6 +8,9 @@ import { OUTCOMES } from '../../shared/schemas/enums.js';
 import { HOMES_DETAIL_MIN_ZOOM, HOMES_MAX_TILE_ZOOM, HOMES_MIN_ZOOM } from '../../shared/schemas/map.js';
 import { homesTileQuery, OUTCOME_PRIORITY } from '../../server/modules/home-tiles/home-tiles.repository.js';
 import { createHomeTiles, warmTileConnections } from '../../server/modules/home-tiles/home-tiles.service.js';
+import { insertPlan } from '../../server/modules/sampling/sampling.repository.js';
+import { lockHome } from '../../server/modules/homes/homes.repository.js';
+import { deferHomeCells, homesByKey } from '../../server/modules/imports/imports.repository.js';
 
 let app: TestApp;
 let tech: ApiClient;
@@ -500,6 +504,56 @@ describe('tiles stored by database triggers (home_tiles)', () => {
       if (planId) await pool.query(`delete from sampling_plans where id = $1`, [planId]);
       await pool.query(`update homes set last_vacuum_pa = $2 where id = $1`, [target.id, target.last_vacuum_pa]);
       await pool.query(`delete from homes where address_key like 'DEFERRED|%'`);
+    }
+    expect(await homeMapMismatches(pool)).toEqual([]);
+  });
+  it('writes a sampling plan over homes that an import and a visit hold, with no deadlock', async () => {
+    // The import and the visit lock their homes first and ask for the map's lock when they write them;
+    // the plan takes the map's lock with its first row. It must not then wait on their homes.
+    const pool = app.database.pool;
+    const companyId = await company();
+    const { rows: [h1, h2] } = await pool.query(
+      `select id, address_key, community_id, last_vacuum_pa from homes where company_id = $1 and community_id is not null order by ref limit 2`,
+      [companyId],
+    );
+    const { rows: [me] } = await pool.query(`select id from users where email = $1`, [demoUser('technician')]);
+    const importing = await pool.connect();
+    let openGate = () => {};
+    const gate = new Promise<void>((resolve) => (openGate = resolve));
+    let visitLocked = () => {};
+    const locked = new Promise<void>((resolve) => (visitLocked = resolve));
+    let planId: string | undefined;
+    const visit = app.database.db.transaction(async (tx) => {
+      await lockHome(tx, companyId, h2.id);
+      visitLocked();
+      await gate;
+      await tx.execute(sql`update homes set last_vacuum_pa = 77 where id = ${h2.id}`);
+    });
+    try {
+      await importing.query('begin');
+      await deferHomeCells(importing);
+      expect((await homesByKey(importing, companyId, [h1.address_key], true)).size).toBe(1);
+      await locked;
+      const plan = app.database.db.transaction((tx) =>
+        insertPlan(tx, { companyId, communityId: h1.community_id, marginOfError: 0.1, expectedRate: 0.3, sampleSize: 2, createdBy: me.id }, [h1.id, h2.id]),
+      );
+      planId = await Promise.race([plan, new Promise<string>((_, reject) => setTimeout(() => reject(new Error('the plan waited on homes an import and a visit hold')), 5000))]);
+      openGate();
+      await visit;
+      await importing.query(`update homes set last_vacuum_pa = 66 where id = $1`, [h1.id]);
+      await importing.query(`select refresh_home_map_at(array[$1::uuid, $1::uuid], array_agg(merc_x), array_agg(merc_y)) from homes where id in ($2, $3)`, [companyId, h1.id, h2.id]);
+      await importing.query('commit');
+      const { rows } = await pool.query(`select home_id from sampling_plan_homes where plan_id = $1 order by home_id`, [planId]);
+      expect(rows.map((r) => r.home_id)).toEqual([h1.id, h2.id].sort());
+      expect(await homeMapMismatches(pool)).toEqual([]);
+    } finally {
+      await importing.query('rollback').catch(() => undefined);
+      importing.release();
+      openGate();
+      await visit.catch(() => undefined);
+      if (planId) await pool.query(`delete from sampling_plans where id = $1`, [planId]);
+      await pool.query(`update homes set last_vacuum_pa = $2 where id = $1`, [h1.id, h1.last_vacuum_pa]);
+      await pool.query(`update homes set last_vacuum_pa = $2 where id = $1`, [h2.id, h2.last_vacuum_pa]);
     }
     expect(await homeMapMismatches(pool)).toEqual([]);
   });

@@ -146,6 +146,28 @@ describe('importing a clean file, then re-importing a changed copy, then undoing
     await app.database.pool.query('delete from visits where id = $1', [visitId]);
   });
 
+  it('refuses to undo when a visit to one of its homes commits while the undo waits', async () => {
+    const home = (await homesAt([keyOf('415', 'Aster St', '00090')]))[0];
+    const visitId = randomUUID();
+    const visiting = await app.database.pool.connect();
+    try {
+      // As a visit is recorded: the home locked (homes.repository lockHome), then the visit written.
+      await visiting.query('begin');
+      await visiting.query(`select id from homes where id = $1 for no key update`, [home.row.id]);
+      await visiting.query(`insert into visits (id, company_id, home_id, visited_on, status) values ($1, $2, $3, current_date, 'declined')`, [visitId, companyId, home.row.id]);
+      const undo = estimator.post(`/api/imports/${secondId}/undo`);
+      await new Promise((resolve) => setTimeout(resolve, 300));
+      await visiting.query('commit');
+      const res = await undo;
+      expect(res.status).toBe(409);
+      expect(res.body.error.message).toMatch(/1 home has a visit recorded since the import \(e\.g\. 415 Aster St\)/);
+    } finally {
+      await visiting.query('rollback').catch(() => undefined);
+      visiting.release();
+      await app.database.pool.query('delete from visits where id = $1', [visitId]);
+    }
+  });
+
   it('undo restores the previous state exactly: updated rows back as they were, inserted rows gone', async () => {
     const undo = await estimator.post(`/api/imports/${secondId}/undo`);
     expect(undo.status).toBe(200);

@@ -125,7 +125,8 @@ export async function referenceBelongs(db: DbOrTx, companyId: string, table: 'co
  * (visits, tests) are applied one after another. False when the company has no such home.
  */
 export async function lockHome(db: DbOrTx, companyId: string, id: string) {
-  const rows = await db.select({ id: homes.id }).from(homes).where(and(eq(homes.companyId, companyId), eq(homes.id, id))).for('update');
+  // No key update: serialises writers of this home, and lets a sampling plan reference it meanwhile.
+  const rows = await db.select({ id: homes.id }).from(homes).where(and(eq(homes.companyId, companyId), eq(homes.id, id))).for('no key update');
   return rows.length > 0;
 }
 

@@ -76,7 +76,10 @@ export interface StoredHome extends HomeValues {
   id: string;
 }
 
-/** The company's homes at these address keys; `lock` holds them until the transaction ends. */
+/**
+ * The company's homes at these address keys; `lock` holds them until the transaction ends (no key update:
+ * a sampling plan may still reference them meanwhile).
+ */
 export async function homesByKey(db: Queryable, companyId: string, keys: string[], lock = false): Promise<Map<string, StoredHome>> {
   if (keys.length === 0) return new Map();
   const { rows } = await db.query<StoredHome>(
@@ -86,7 +89,7 @@ export async function homesByKey(db: Queryable, companyId: string, keys: string[
             h.do_not_contact as "doNotContact"
        from homes h join unnest($2::text[]) as k(key) on h.address_key = k.key
       where h.company_id = $1
-       ${lock ? 'for update of h' : ''}`,
+       ${lock ? 'for no key update of h' : ''}`,
     [companyId, keys],
   );
   return new Map(rows.map((r) => [r.addressKey, r]));
@@ -364,6 +367,18 @@ export const RESTORED_HOME_COLUMNS = Object.values(getTableColumns(homes))
   .filter((c) => c.generated === undefined && c.generatedIdentity === undefined)
   .map((c) => c.name)
   .filter((n) => n !== 'id' && n !== 'company_id');
+
+/**
+ * Locks every home the batch inserted or updated, before undo checks them and before it takes the map's
+ * lock: a visit recorded meanwhile is then either seen by undoBlockers or waits for the undo.
+ */
+export async function lockBatchHomes(db: Queryable, companyId: string, batchId: string) {
+  await db.query(
+    `select h.id from homes h join import_changes c on c.home_id = h.id
+      where c.batch_id = $2 and h.company_id = $1 and c.action in ('inserted', 'updated') order by h.id for update of h`,
+    [companyId, batchId],
+  );
+}
 
 /** Puts every updated home back as it was (its whole row, from to_jsonb) and deletes the homes the import added. */
 export async function revertBatch(db: Queryable, companyId: string, batchId: string) {

@@ -487,6 +487,7 @@ export async function undoImport(deps: ImportDeps, viewer: SessionUser, id: stri
     const batch = await repo.findBatch(client, viewer.companyId, id, true);
     if (!batch) throw AppError.notFound('Import');
     if (batch.status === 'undone') throw AppError.conflict('This import has already been undone');
+    await repo.lockBatchHomes(client, viewer.companyId, id);
     const blockers = await repo.undoBlockers(client, viewer.companyId, id);
     if (blockers.length) {
       const reasons = blockers.map((b) =>

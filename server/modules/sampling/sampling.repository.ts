@@ -1,4 +1,4 @@
-import { and, desc, eq, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client.js';
 import { homePlaceColumns, streetOrder } from '../homes/homes.repository.js';
 import { communities, homes, samplingPlanHomes, samplingPlans, users } from '../../db/schema/tables.js';
@@ -39,13 +39,22 @@ export function candidateHomes(db: DbOrTx, companyId: string, communityId: strin
     );
 }
 
+/**
+ * Writes a plan and its homes. The homes are locked (key share, as their foreign key would) before the
+ * plan: the plan's triggers take the company's map lock, and a visit, an import or a delete holding one
+ * of these homes asks for that lock after its row, so waiting on a home while holding it would deadlock
+ * (DEVELOPERS.md, "Locks"). A home deleted meanwhile is left out.
+ */
 export async function insertPlan(
   db: DbOrTx,
   values: { companyId: string; communityId: string; marginOfError: number; expectedRate: number; sampleSize: number; createdBy: string },
   homeIds: string[],
 ) {
+  const live = homeIds.length
+    ? await db.select({ id: homes.id }).from(homes).where(and(eq(homes.companyId, values.companyId), inArray(homes.id, homeIds))).orderBy(asc(homes.id)).for('key share')
+    : [];
   const [row] = await db.insert(samplingPlans).values(values).returning({ id: samplingPlans.id });
-  if (homeIds.length) await db.insert(samplingPlanHomes).values(homeIds.map((homeId) => ({ planId: row.id, homeId })));
+  if (live.length) await db.insert(samplingPlanHomes).values(live.map((h) => ({ planId: row.id, homeId: h.id })));
   return row.id;
 }
 

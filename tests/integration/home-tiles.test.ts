@@ -557,6 +557,38 @@ describe('tiles stored by database triggers (home_tiles)', () => {
     }
     expect(await homeMapMismatches(pool)).toEqual([]);
   });
+  it('takes a deleted community off its homes and its plan off the map', async () => {
+    const pool = app.database.pool;
+    const companyId = await company();
+    const editor = new ApiClient(app.url);
+    await editor.signIn(demoUser('estimator'));
+    const { rows: [community] } = await pool.query(
+      `insert into communities (company_id, name) values ($1, 'Doomed Tile Phase') returning id`,
+      [companyId],
+    );
+    try {
+      await pool.query(
+        `insert into homes (company_id, number, street, city, state, zip, address_key, location, outcome, community_id)
+         select $1, g::text, 'Doomed Row', 'Testville', 'ZZ', '00001', 'DOOMED|' || g, ST_SetSRID(ST_MakePoint($2 + g * 0.0002, $3), 4326), 'not_visited', $4
+         from generate_series(1, 3) g`,
+        [companyId, home.lon + 0.01, home.lat + 0.01, community.id],
+      );
+      const { rows: [plan] } = await pool.query(
+        `insert into sampling_plans (company_id, community_id, margin_of_error, expected_rate, sample_size) values ($1, $2, 0.1, 0.3, 1) returning id`,
+        [companyId, community.id],
+      );
+      await pool.query(`insert into sampling_plan_homes (plan_id, home_id) select $1, id from homes where address_key = 'DOOMED|2'`, [plan.id]);
+      expect((await homeMapMismatches(pool)).length).toBe(0);
+      expect((await editor.delete(`/api/communities/${community.id}`)).status).toBe(204);
+      const { rows } = await pool.query(`select count(*)::int as n, count(community_id)::int as with_community from homes where address_key like 'DOOMED|%'`);
+      expect(rows[0]).toEqual({ n: 3, with_community: 0 });
+      expect((await pool.query(`select 1 from sampling_plans where id = $1`, [plan.id])).rowCount).toBe(0);
+      expect(await homeMapMismatches(pool)).toEqual([]);
+    } finally {
+      await pool.query(`delete from homes where address_key like 'DOOMED|%'`);
+      await pool.query(`delete from communities where id = $1`, [community.id]);
+    }
+  });
 });
 
 describe('which cached tiles a change makes stale (home_tile_versions)', () => {

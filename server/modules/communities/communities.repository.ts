@@ -75,7 +75,18 @@ export async function replaceCommunityBuilders(db: DbOrTx, communityId: string, 
   }
 }
 
+/**
+ * Deletes a community: its homes lose it (set null) and its plans go (cascade). Its homes are locked
+ * first, since the plans' triggers take the company's map lock and the homes come before it (DEVELOPERS.md,
+ * "Locks"). Call inside a transaction.
+ */
 export async function deleteCommunity(db: DbOrTx, companyId: string, id: string) {
+  await db
+    .select({ id: homes.id })
+    .from(homes)
+    .where(and(eq(homes.companyId, companyId), eq(homes.communityId, id)))
+    .orderBy(asc(homes.id))
+    .for('no key update');
   const rows = await db
     .delete(communities)
     .where(and(eq(communities.companyId, companyId), eq(communities.id, id)))

@@ -52,5 +52,5 @@ export async function updateCommunity(db: Db, companyId: string, id: string, pat
 }
 
 export async function deleteCommunity(db: Db, companyId: string, id: string) {
-  if (!(await repo.deleteCommunity(db, companyId, id))) throw AppError.notFound('Community');
+  if (!(await db.transaction((tx) => repo.deleteCommunity(tx, companyId, id)))) throw AppError.notFound('Community');
 }

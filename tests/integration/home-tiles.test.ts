@@ -557,6 +557,29 @@ describe('tiles stored by database triggers (home_tiles)', () => {
     }
     expect(await homeMapMismatches(pool)).toEqual([]);
   });
+  it('takes a deleted builder off its homes and keeps the stored map right', async () => {
+    const pool = app.database.pool;
+    const companyId = await company();
+    const editor = new ApiClient(app.url);
+    await editor.signIn(demoUser('estimator'));
+    const { rows: [builder] } = await pool.query(`insert into builders (company_id, name) values ($1, 'Doomed Tile Builder') returning id`, [companyId]);
+    try {
+      await pool.query(
+        `insert into homes (company_id, number, street, city, state, zip, address_key, location, outcome, builder_id)
+         select $1, g::text, 'Doomed Builder Row', 'Testville', 'ZZ', '00001', 'DOOMED-B|' || g, ST_SetSRID(ST_MakePoint($2 + g * 0.0002, $3), 4326), 'not_visited', $4
+         from generate_series(1, 3) g`,
+        [companyId, home.lon - 0.01, home.lat + 0.01, builder.id],
+      );
+      expect((await editor.delete(`/api/builders/${builder.id}`)).status).toBe(204);
+      const { rows } = await pool.query(`select count(*)::int as n, count(builder_id)::int as with_builder from homes where address_key like 'DOOMED-B|%'`);
+      expect(rows[0]).toEqual({ n: 3, with_builder: 0 });
+      expect(await homeMapMismatches(pool)).toEqual([]);
+    } finally {
+      await pool.query(`delete from homes where address_key like 'DOOMED-B|%'`);
+      await pool.query(`delete from builders where id = $1`, [builder.id]);
+    }
+  });
+
   it('takes a deleted community off its homes and its plan off the map', async () => {
     const pool = app.database.pool;
     const companyId = await company();

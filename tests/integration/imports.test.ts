@@ -314,6 +314,36 @@ describe('a file with good and bad rows', () => {
     expect((await estimator.post(`/api/imports/${started.id}/undo`)).status).toBe(200);
     expect((await app.database.pool.query(`select id from builders where company_id = $1 and name = 'Quarrystone Builders'`, [companyId])).rows).toEqual([]);
   });
+
+  it('keeps a builder the import created when a home written during the undo refers to it, without deadlock', async () => {
+    const csv = 'Address,City,State,ZIP,Builder\n2207 Copperleaf Dr,Tarrowby,ZZ,00091,Larkspur Homebuilders\n';
+    const { started, job } = await importCsv(estimator, csv, { createBuilders: true });
+    expect(job.created.builders).toEqual(['Larkspur Homebuilders']);
+    const { rows: [builder] } = await app.database.pool.query(`select id from builders where company_id = $1 and name = 'Larkspur Homebuilders'`, [companyId]);
+    const writing = await app.database.pool.connect();
+    try {
+      // A home written by someone else that names the new builder: its foreign key holds the builder
+      // (key share) before its trigger asks for the map's lock, which the undo must not hold meanwhile.
+      await writing.query('begin');
+      await writing.query(`select id from builders where id = $1 for key share`, [builder.id]);
+      const undo = estimator.post(`/api/imports/${started.id}/undo`);
+      await new Promise((resolve) => setTimeout(resolve, 300));
+      await writing.query(
+        `insert into homes (company_id, number, street, city, state, zip, address_key, location, outcome, builder_id)
+         select company_id, '9', 'Undo Race Ct', 'Tarrowby', 'ZZ', '00091', 'UNDO-RACE|9', location, 'not_visited', $2 from homes where company_id = $1 limit 1`,
+        [companyId, builder.id],
+      );
+      await writing.query('commit');
+      expect((await undo).status).toBe(200);
+      // Still referred to, so kept.
+      expect((await app.database.pool.query(`select id from builders where id = $1`, [builder.id])).rows).toHaveLength(1);
+    } finally {
+      await writing.query('rollback').catch(() => undefined);
+      writing.release();
+      await app.database.pool.query(`delete from homes where address_key = 'UNDO-RACE|9'`);
+      await app.database.pool.query(`delete from builders where id = $1`, [builder.id]);
+    }
+  });
 });
 
 describe('submitting', () => {

@@ -24,5 +24,5 @@ export async function updateBuilder(db: Db, companyId: string, id: string, patch
 }
 
 export async function deleteBuilder(db: Db, companyId: string, id: string) {
-  if (!(await repo.deleteBuilder(db, companyId, id))) throw AppError.notFound('Builder');
+  if (!(await db.transaction((tx) => repo.deleteBuilder(tx, companyId, id)))) throw AppError.notFound('Builder');
 }

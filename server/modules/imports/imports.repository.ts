@@ -89,6 +89,7 @@ export async function homesByKey(db: Queryable, companyId: string, keys: string[
             h.do_not_contact as "doNotContact"
        from homes h join unnest($2::text[]) as k(key) on h.address_key = k.key
       where h.company_id = $1
+      order by h.id -- rows locked in one order by every writer
        ${lock ? 'for no key update of h' : ''}`,
     [companyId, keys],
   );
@@ -395,6 +396,20 @@ export async function revertBatch(db: Queryable, companyId: string, batchId: str
     [companyId, batchId],
   );
   return { restored: restored.rowCount ?? 0, deleted: deleted.rowCount ?? 0 };
+}
+
+/**
+ * Locks the builders and communities the import created, after its homes and before the map's lock
+ * (revertBatch): a home written meanwhile that refers to one of them holds it (key share) and then asks
+ * for the map's lock, so undo must not wait on it while holding that lock (DEVELOPERS.md, "Locks").
+ */
+export async function lockCreated(db: Queryable, companyId: string, builderIds: string[], communityIds: string[]) {
+  if (communityIds.length) {
+    await db.query(`select id from communities where company_id = $1 and id = any($2::uuid[]) order by id for update`, [companyId, communityIds]);
+  }
+  if (builderIds.length) {
+    await db.query(`select id from builders where company_id = $1 and id = any($2::uuid[]) order by id for update`, [companyId, builderIds]);
+  }
 }
 
 /** Removes builders and communities the import created, where nothing refers to them any more. */

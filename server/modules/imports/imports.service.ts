@@ -497,14 +497,12 @@ export async function undoImport(deps: ImportDeps, viewer: SessionUser, id: stri
       );
       throw AppError.conflict(`This import can no longer be undone exactly: ${reasons.join('; ')}`);
     }
-    await repo.revertBatch(client, viewer.companyId, id);
     const created = (batch.mapping as Partial<StoredMapping>).created;
-    await repo.deleteCreatedIfUnused(
-      client,
-      viewer.companyId,
-      (created?.builders ?? []).map((b) => b.id),
-      (created?.communities ?? []).map((c) => c.id),
-    );
+    const createdBuilders = (created?.builders ?? []).map((b) => b.id);
+    const createdCommunities = (created?.communities ?? []).map((c) => c.id);
+    await repo.lockCreated(client, viewer.companyId, createdBuilders, createdCommunities);
+    await repo.revertBatch(client, viewer.companyId, id);
+    await repo.deleteCreatedIfUnused(client, viewer.companyId, createdBuilders, createdCommunities);
     await repo.markUndone(client, id);
   });
   const job = deps.jobs.get(id);

@@ -1,6 +1,7 @@
 import { and, asc, eq, sql } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client.js';
 import { builders, homes } from '../../db/schema/tables.js';
+import { lockHomesReferring } from '../homes/homes.repository.js';
 
 const builderColumns = {
   id: builders.id,
@@ -44,17 +45,9 @@ export async function updateBuilder(db: DbOrTx, companyId: string, id: string, p
   return row?.id;
 }
 
-/**
- * Deletes a builder: its homes lose it (set null). Its homes are locked first, in id order, as every
- * writer of homes locks them before the rows they refer to (DEVELOPERS.md, "Locks"). Call inside a transaction.
- */
+/** Deletes a builder: its homes lose it (set null), so they are locked first (lockHomesReferring). Call inside a transaction. */
 export async function deleteBuilder(db: DbOrTx, companyId: string, id: string) {
-  await db
-    .select({ id: homes.id })
-    .from(homes)
-    .where(and(eq(homes.companyId, companyId), eq(homes.builderId, id)))
-    .orderBy(asc(homes.id))
-    .for('no key update');
+  await lockHomesReferring(db, companyId, { builderId: id });
   const rows = await db
     .delete(builders)
     .where(and(eq(builders.companyId, companyId), eq(builders.id, id)))

@@ -2,6 +2,7 @@ import { and, asc, eq, sql } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client.js';
 import { communities, communityBuilders, homes } from '../../db/schema/tables.js';
 import type { PolygonGeometry } from '../../../shared/schemas/common.js';
+import { lockHomesReferring } from '../homes/homes.repository.js';
 
 const communityColumns = {
   id: communities.id,
@@ -76,17 +77,11 @@ export async function replaceCommunityBuilders(db: DbOrTx, communityId: string, 
 }
 
 /**
- * Deletes a community: its homes lose it (set null) and its plans go (cascade). Its homes are locked
- * first, since the plans' triggers take the company's map lock and the homes come before it (DEVELOPERS.md,
- * "Locks"). Call inside a transaction.
+ * Deletes a community: its homes lose it (set null) and its plans go (cascade, whose triggers take the
+ * map's lock), so its homes are locked first (lockHomesReferring). Call inside a transaction.
  */
 export async function deleteCommunity(db: DbOrTx, companyId: string, id: string) {
-  await db
-    .select({ id: homes.id })
-    .from(homes)
-    .where(and(eq(homes.companyId, companyId), eq(homes.communityId, id)))
-    .orderBy(asc(homes.id))
-    .for('no key update');
+  await lockHomesReferring(db, companyId, { communityId: id });
   const rows = await db
     .delete(communities)
     .where(and(eq(communities.companyId, companyId), eq(communities.id, id)))

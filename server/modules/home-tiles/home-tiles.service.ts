@@ -9,8 +9,7 @@ import * as repo from './home-tiles.repository.js';
  * is never served stale: the next request after a visit, an import or an edit builds the tiles that
  * draw the changed homes anew, and the rest of the map stays cached.
  */
-/** Where a tile came from: the server's cache, the tiles the database stores (home_tiles), or built now. */
-/** Where a tile came from; 'none' below the zooms that draw homes (an empty tile, nothing read). */
+/** Where a tile came from: the server's cache, the tiles the database stores (home_tiles), built now, or none (below the homes zooms: an empty tile). */
 export type TileSource = 'cached' | 'stored' | 'built' | 'none';
 
 export function createHomeTiles(db: Db, options: { maxBytes?: number } = {}) {

@@ -124,6 +124,16 @@ export async function referenceBelongs(db: DbOrTx, companyId: string, table: 'co
  * Locks the home's row for the rest of the transaction, so writes that change its derived summary
  * (visits, tests) are applied one after another. False when the company has no such home.
  */
+/**
+ * Locks, in id order, the company's homes that refer to this builder or community: a delete that sets them
+ * to null locks them first, as every writer of homes does before the rows they refer to and the map's lock
+ * (DEVELOPERS.md, "Locks"). Call inside a transaction.
+ */
+export async function lockHomesReferring(db: DbOrTx, companyId: string, to: { builderId: string } | { communityId: string }) {
+  const refers = 'builderId' in to ? eq(homes.builderId, to.builderId) : eq(homes.communityId, to.communityId);
+  await db.select({ id: homes.id }).from(homes).where(and(eq(homes.companyId, companyId), refers)).orderBy(asc(homes.id)).for('no key update');
+}
+
 export async function lockHome(db: DbOrTx, companyId: string, id: string) {
   // No key update: serialises writers of this home, and lets a sampling plan reference it meanwhile.
   const rows = await db.select({ id: homes.id }).from(homes).where(and(eq(homes.companyId, companyId), eq(homes.id, id))).for('no key update');
